@@ -287,11 +287,11 @@ const RECOMPUTE: Record<string, () => Unit> = {
 	'tp-013': () => unit(3 * PI * 225, 'mm'),
 	'tp-020': () => waterHead(2.5),
 	// Step thrust = p x (A_large - A_small).
-	'tp-031': () => thrust(unit(2.0, 'bar'), 150).subtract(thrust(unit(2.0, 'bar'), 100)),
-	'tp-032': () => thrust(unit(1.5, 'bar'), 225).subtract(thrust(unit(1.5, 'bar'), 150)),
+	'tp-032': () => thrust(unit(2.0, 'bar'), 150).subtract(thrust(unit(2.0, 'bar'), 100)),
+	'tp-033': () => thrust(unit(1.5, 'bar'), 225).subtract(thrust(unit(1.5, 'bar'), 150)),
 	// Lifted end: repair when the lift exceeds 5 % of the diameter (handbook).
-	'tp-038': () => unit(0.05 * 150, 'mm'),
-	'tp-044': () =>
+	'tp-039': () => unit(0.05 * 150, 'mm'),
+	'tp-045': () =>
 		waterAllowance(
 			[
 				[100, 10],
