@@ -23,6 +23,7 @@ const MATHJS: Record<string, { expr: string; scale?: number }> = {
 	m: { expr: 'm' },
 	in: { expr: 'in' },
 	ft: { expr: 'ft' },
+	'L/m2': { expr: 'L/m^2' },
 	mm2: { expr: 'mm^2' },
 	cm2: { expr: 'cm^2' },
 	m2: { expr: 'm^2' },
@@ -65,7 +66,9 @@ const MATHJS: Record<string, { expr: string; scale?: number }> = {
 	'kg/L': { expr: 'kg/L' },
 	'lb/gal': { expr: 'lbm/gal' },
 	'lb/ft3': { expr: 'lbf/ft^3' },
-	'kN/m3': { expr: 'kN/m^3' }
+	'kN/m3': { expr: 'kN/m^3' },
+	deg: { expr: 'deg' },
+	rad: { expr: 'rad' }
 };
 
 /** mathjs's answer for `value fromUnit` expressed in `toUnit`. */

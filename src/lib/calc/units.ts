@@ -21,7 +21,8 @@ export type Quantity =
 	| 'ratio'
 	| 'arealDensity'
 	| 'density'
-	| 'unitWeight';
+	| 'unitWeight'
+	| 'angle';
 
 export type UnitSystem = 'metric' | 'imperial';
 
@@ -52,6 +53,8 @@ const UNITS: Record<string, UnitDef> = {
 	m: { quantity: 'length', factor: 1, label: 'm', system: 'metric' },
 	in: { quantity: 'length', factor: INCH_M, label: 'in', system: 'imperial' },
 	ft: { quantity: 'length', factor: FOOT_M, label: 'ft', system: 'imperial' },
+	/** Litres per square metre of surface, as water-test allowances are stated: 1 L/m² = 1 mm. */
+	'L/m2': { quantity: 'length', factor: 1e-3, label: 'L/m²', system: 'metric' },
 
 	mm2: { quantity: 'area', factor: 1e-6, label: 'mm²', system: 'metric' },
 	cm2: { quantity: 'area', factor: 1e-4, label: 'cm²', system: 'metric' },
@@ -139,7 +142,10 @@ const UNITS: Record<string, UnitDef> = {
 		label: 'lb/ft³',
 		system: 'imperial'
 	},
-	'kN/m3': { quantity: 'unitWeight', factor: 1e3, label: 'kN/m³', system: 'metric' }
+	'kN/m3': { quantity: 'unitWeight', factor: 1e3, label: 'kN/m³', system: 'metric' },
+
+	deg: { quantity: 'angle', factor: Math.PI / 180, label: '°' },
+	rad: { quantity: 'angle', factor: 1, label: 'rad' }
 };
 
 /** Other spellings people type, mapped to the codes above. Matched exactly, then lower-cased. */
@@ -259,6 +265,11 @@ const ALIASES: Record<string, string> = {
 	'g/ml': 'g/cm3',
 	'kg/l': 'kg/L',
 	pcf: 'lb/ft3',
+	'°': 'deg',
+	degree: 'deg',
+	degrees: 'deg',
+	'l/m2': 'L/m2',
+	'l/m²': 'L/m2',
 	'lb/ft³': 'lb/ft3',
 	'lb/ft^3': 'lb/ft3',
 	'kn/m3': 'kN/m3',

@@ -1,0 +1,94 @@
+/**
+ * Input validation for calculators: zod schemas built from each calculator's InputSpec list.
+ * Contract: every failure is a message per field name ('inputs' for the whole object);
+ * numbers may arrive as JSON numbers or as numeric strings from forms.
+ */
+import { z } from 'zod';
+import type { CalculatorDef, InputSpec, Inputs } from './types';
+import { given, plain } from './worksheet';
+
+const NUMERIC = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/** Empty and null count as left out; numeric strings become numbers; anything else passes through to fail. */
+function readNumber(value: unknown): unknown {
+	if (value === null || value === undefined) return undefined;
+	if (typeof value === 'string') {
+		const trimmed = value.trim();
+		if (trimmed === '') return undefined;
+		return NUMERIC.test(trimmed) ? Number(trimmed) : value;
+	}
+	return value;
+}
+
+/** "Must be between 50 and 1600 mm", with limits given in `unit` (converted by the caller). */
+export function rangeMessage(min: number, max: number, unit: string): string {
+	return `Must be between ${plain(min)} and ${given(max, unit)}`;
+}
+
+function choicesMessage(spec: InputSpec): string {
+	return `Must be one of ${spec.choices!.map((c) => plain(c)).join(', ')}`;
+}
+
+function fieldSchema(spec: InputSpec) {
+	let schema = z.number({
+		error: (issue) => (issue.input === undefined ? 'Required' : 'Must be a number')
+	});
+	if (spec.integer) schema = schema.int('Must be a whole number');
+	const range = rangeMessage(spec.min, spec.max, spec.unit);
+	schema = schema.min(spec.min, range).max(spec.max, range);
+	const checked = spec.choices
+		? schema.refine((v) => spec.choices!.includes(v), choicesMessage(spec))
+		: schema;
+	return z.preprocess((value) => {
+		const n = readNumber(value);
+		return n === undefined && spec.optional ? spec.default : n;
+	}, checked);
+}
+
+const schemas = new WeakMap<CalculatorDef, z.ZodType<Inputs>>();
+
+function schemaFor(def: CalculatorDef): z.ZodType<Inputs> {
+	let schema = schemas.get(def);
+	if (!schema) {
+		const shape = Object.fromEntries(def.inputs.map((spec) => [spec.name, fieldSchema(spec)]));
+		schema = z.strictObject(shape, {
+			error: (issue) =>
+				issue.code === 'invalid_type' ? 'Must be an object of named numbers' : undefined
+		}) as unknown as z.ZodType<Inputs>;
+		schemas.set(def, schema);
+	}
+	return schema;
+}
+
+export type ParsedInputs =
+	| { ok: true; inputs: Inputs }
+	| { ok: false; errors: Record<string, string> };
+
+/** Validates raw inputs field by field, then across fields (the calculator's own `check`). */
+export function parseInputs(def: CalculatorDef, raw: unknown): ParsedInputs {
+	const parsed = schemaFor(def).safeParse(raw);
+	if (!parsed.success) {
+		const errors: Record<string, string> = {};
+		const names = def.inputs.map((s) => s.name).join(', ');
+		for (const issue of parsed.error.issues) {
+			if (issue.code === 'unrecognized_keys') {
+				for (const key of issue.keys) errors[key] ??= `Unknown input; this calculator takes ${names}`;
+				continue;
+			}
+			const key = issue.path.length > 0 ? String(issue.path[0]) : 'inputs';
+			errors[key] ??= issue.message;
+		}
+		return { ok: false, errors };
+	}
+	const errors = Object.fromEntries(
+		Object.entries(def.check?.(parsed.data) ?? {}).filter(
+			(entry): entry is [string, string] => typeof entry[1] === 'string'
+		)
+	);
+	return Object.keys(errors).length > 0 ? { ok: false, errors } : { ok: true, inputs: parsed.data };
+}
+
+/** The inputs a calculator starts from: every default. */
+export function defaultInputs(def: CalculatorDef): Inputs {
+	return Object.fromEntries(def.inputs.map((s) => [s.name, s.default]));
+}
