@@ -1,0 +1,95 @@
+/**
+ * `npm run demo`: builds the app when the build is missing or older than the sources,
+ * starts the local fakes on free ports, then the built app with the demo scenario seeded
+ * into DATA_DIR (default ./data/demo), and prints every address and login.
+ * PORT (default 3000) and DATA_DIR let two copies run side by side.
+ */
+import { spawn, spawnSync } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { startMailFake } from '../fakes/mail';
+import { DEMO_PASSWORD, DEMO_PEOPLE } from '../src/lib/server/demo-people';
+
+const root = path.resolve(import.meta.dirname, '..');
+const port = Number(process.env.PORT || 3000);
+const dataDir = path.resolve(process.env.DATA_DIR || path.join(root, 'data', 'demo'));
+fs.mkdirSync(dataDir, { recursive: true });
+
+function newestMtime(dir: string): number {
+	let newest = 0;
+	for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+		const full = path.join(dir, entry.name);
+		newest = Math.max(newest, entry.isDirectory() ? newestMtime(full) : fs.statSync(full).mtimeMs);
+	}
+	return newest;
+}
+
+const built = path.join(root, 'build', 'handler.js');
+const sourcesChanged = ['src', 'content', 'migrations', 'static'].some(
+	(d) => fs.existsSync(built) && newestMtime(path.join(root, d)) > fs.statSync(built).mtimeMs
+);
+if (!fs.existsSync(built) || sourcesChanged) {
+	console.log('Building the app (about 20 s)...');
+	const result = spawnSync('npx', ['vite', 'build'], { cwd: root, encoding: 'utf8' });
+	if (result.status !== 0) {
+		console.error(result.stdout, result.stderr);
+		process.exit(result.status ?? 1);
+	}
+}
+
+// A secret per data folder, so sign-ins survive a restart of the demo.
+const secretFile = path.join(dataDir, 'auth-secret');
+if (!fs.existsSync(secretFile)) fs.writeFileSync(secretFile, randomBytes(32).toString('base64url'), { mode: 0o600 });
+
+const mail = await startMailFake({ smtpPort: 0, httpPort: 0, dir: path.join(dataDir, 'mail') });
+
+const app = spawn(process.execPath, [path.join(root, 'build')], {
+	cwd: root,
+	stdio: ['ignore', 'pipe', 'inherit'],
+	env: {
+		...process.env,
+		PORT: String(port),
+		// adapter-node assumes https unless told the public origin; form actions check it.
+		ORIGIN: process.env.ORIGIN || `http://localhost:${port}`,
+		DATA_DIR: dataDir,
+		AUTH_SECRET: process.env.AUTH_SECRET || fs.readFileSync(secretFile, 'utf8'),
+		SMTP_URL: mail.smtpUrl,
+		FAKES: '1',
+		FAKE_INBOX_URL: mail.inboxUrl,
+		SEED_DEMO: '1'
+	}
+});
+
+let announced = false;
+app.stdout!.on('data', (chunk: Buffer) => {
+	process.stdout.write(chunk);
+	if (!announced && chunk.toString().includes('Listening')) {
+		announced = true;
+		const url = process.env.ORIGIN || `http://localhost:${port}`;
+		const width = Math.max(...DEMO_PEOPLE.map((p) => p.email.length));
+		console.log(`
+Patchwright demo is running.
+  App:          ${url}
+  Local inbox:  ${mail.inboxUrl}   (every e-mail the app sends)
+  Calculators:  ${url}/tools
+  Data folder:  ${dataDir}
+
+Demo logins (password for all: ${DEMO_PASSWORD}):
+${DEMO_PEOPLE.map((p) => `  ${p.email.padEnd(width)}  ${p.part}`).join('\n')}
+
+Press Ctrl+C to stop.`);
+	}
+});
+
+const stop = async () => {
+	app.kill('SIGTERM');
+	await mail.close();
+	process.exit(0);
+};
+process.on('SIGINT', stop);
+process.on('SIGTERM', stop);
+app.on('exit', async (code) => {
+	await mail.close();
+	process.exit(code ?? 0);
+});

@@ -1,0 +1,20 @@
+import type { Identity } from '$lib/roles';
+
+declare global {
+	namespace App {
+		interface Error {
+			message: string;
+			/** Reference shown to the person and written to the log for unexpected errors. */
+			id?: string;
+		}
+		interface Locals {
+			/** The signed-in person with roles and companies, loaded fresh on every request. */
+			user: Identity | null;
+		}
+		interface PageData {
+			user?: Identity | null;
+		}
+	}
+}
+
+export {};

@@ -1,0 +1,36 @@
+import { env } from '$env/dynamic/private';
+import path from 'node:path';
+
+/** Runtime settings, read from the environment (see .env.example). */
+export const config = {
+	get dataDir() {
+		return path.resolve(env.DATA_DIR || './data');
+	},
+	get databaseFile() {
+		return path.join(this.dataDir, 'patchwright.sqlite');
+	},
+	get smtpUrl() {
+		return env.SMTP_URL || 'smtp://127.0.0.1:2525';
+	},
+	get mailFrom() {
+		return env.MAIL_FROM || 'Patchwright <no-reply@patchwright.test>';
+	},
+	/** The fake inbox page; shown in the navigation only when fakes are enabled. */
+	get fakeInboxUrl() {
+		return env.FAKES === '1' ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null;
+	},
+	get seedDemo() {
+		return env.SEED_DEMO === '1';
+	}
+};
+
+/** Sign-in attempt limits (per 15 minutes); tests raise the per-IP one since every test shares 127.0.0.1. */
+export const signInLimits = {
+	get perEmail() {
+		return Number(env.SIGN_IN_LIMIT_PER_EMAIL || 5);
+	},
+	get perIp() {
+		return Number(env.SIGN_IN_LIMIT_PER_IP || 30);
+	},
+	windowMs: 15 * 60 * 1000
+};

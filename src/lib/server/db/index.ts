@@ -1,0 +1,36 @@
+import fs from 'node:fs';
+import type { Kysely } from 'kysely';
+import { config } from '../config';
+import { openDatabase } from './connect';
+import type { Database } from './schema';
+
+export type { Database } from './schema';
+export type DB = Kysely<Database>;
+
+let instance: DB | undefined;
+
+/** The app's one database, opened on first use under DATA_DIR. */
+export function getDb(): DB {
+	if (!instance) {
+		fs.mkdirSync(config.dataDir, { recursive: true });
+		instance = openDatabase(config.databaseFile);
+	}
+	return instance;
+}
+
+/** A proxy so modules can write `db.selectFrom(...)` and still open the file lazily. */
+export const db: DB = new Proxy({} as DB, {
+	get(_target, prop) {
+		const real = getDb() as unknown as Record<string | symbol, unknown>;
+		const value = real[prop];
+		return typeof value === 'function' ? (value as Function).bind(real) : value;
+	}
+});
+
+/**
+ * Runs `work` in a transaction, joining the caller's when `db` already is one, so domain
+ * functions compose (a seed or a larger change can wrap several of them atomically).
+ */
+export function inTransaction<T>(db: DB, work: (trx: DB) => Promise<T>): Promise<T> {
+	return db.isTransaction ? work(db) : db.transaction().execute(work);
+}

@@ -1,0 +1,101 @@
+import type { Generated, Insertable, Selectable, Updateable } from 'kysely';
+
+/** Column types match what SQLite returns: 0/1 for booleans, ISO-8601 UTC strings for times. */
+
+export interface UserTable {
+	id: string;
+	name: string | null;
+	email: string;
+	emailVerified: string | null;
+	image: string | null;
+	passwordHash: string | null;
+	createdAt: Generated<string>;
+}
+
+export interface AccountTable {
+	id: Generated<string>;
+	userId: string;
+	type: string;
+	provider: string;
+	providerAccountId: string;
+	refresh_token: string | null;
+	access_token: string | null;
+	expires_at: number | null;
+	token_type: string | null;
+	scope: string | null;
+	id_token: string | null;
+	session_state: string | null;
+}
+
+export interface SessionTable {
+	id: Generated<string>;
+	userId: string;
+	sessionToken: string;
+	expires: string;
+}
+
+export interface VerificationTokenTable {
+	identifier: string;
+	token: string;
+	expires: string;
+}
+
+export type PlatformRole = 'trainer' | 'inspector' | 'registrar';
+export type CompanyRole = 'admin' | 'member';
+
+export interface UserRoleTable {
+	user_id: string;
+	role: PlatformRole;
+	granted_at: string;
+	granted_by: string | null;
+}
+
+export interface CompanyTable {
+	id: string;
+	name: string;
+	created_at: string;
+}
+
+export interface MembershipTable {
+	company_id: string;
+	user_id: string;
+	role: CompanyRole;
+	created_at: string;
+}
+
+export interface PasswordResetTable {
+	token_hash: string;
+	user_id: string;
+	expires_at: string;
+	used_at: string | null;
+}
+
+export interface AuditLogTable {
+	id: Generated<number>;
+	at: string;
+	actor_id: string | null;
+	action: string;
+	subject_type: string;
+	subject_id: string;
+	/** JSON text. */
+	detail: Generated<string>;
+}
+
+export interface Database {
+	User: UserTable;
+	Account: AccountTable;
+	Session: SessionTable;
+	VerificationToken: VerificationTokenTable;
+	user_role: UserRoleTable;
+	company: CompanyTable;
+	membership: MembershipTable;
+	password_reset: PasswordResetTable;
+	audit_log: AuditLogTable;
+}
+
+export type User = Selectable<UserTable>;
+export type NewUser = Insertable<UserTable>;
+export type UserUpdate = Updateable<UserTable>;
+export type Company = Selectable<CompanyTable>;
+export type Membership = Selectable<MembershipTable>;
+export type AuditEntry = Selectable<AuditLogTable>;

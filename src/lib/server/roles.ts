@@ -1,0 +1,60 @@
+import type { Identity, PlatformRole, Role } from '$lib/roles';
+import { recordAudit } from './audit';
+import { db as defaultDb, inTransaction, type DB } from './db';
+
+/** Loads the person with roles and company memberships; null when the account is gone. */
+export async function loadIdentity(userId: string, db: DB = defaultDb): Promise<Identity | null> {
+	const user = await db
+		.selectFrom('User')
+		.select(['id', 'email', 'name'])
+		.where('id', '=', userId)
+		.executeTakeFirst();
+	if (!user) return null;
+	const [roles, companies] = await Promise.all([
+		db.selectFrom('user_role').select('role').where('user_id', '=', userId).execute(),
+		db
+			.selectFrom('membership')
+			.innerJoin('company', 'company.id', 'membership.company_id')
+			.select(['company.id', 'company.name', 'membership.role'])
+			.where('membership.user_id', '=', userId)
+			.orderBy('company.name')
+			.execute()
+	]);
+	const order: Role[] = ['trainee', 'trainer', 'inspector', 'registrar'];
+	const held = new Set<Role>(['trainee', ...roles.map((r) => r.role)]);
+	return { ...user, roles: order.filter((r) => held.has(r)), companies };
+}
+
+/** Grants a platform role (no-op when already held) and records who did it. */
+export async function grantRole(actorId: string | null, userId: string, role: PlatformRole, db: DB = defaultDb) {
+	await inTransaction(db, async (trx) => {
+		const result = await trx
+			.insertInto('user_role')
+			.values({ user_id: userId, role, granted_at: new Date().toISOString(), granted_by: actorId })
+			.onConflict((oc) => oc.doNothing())
+			.executeTakeFirst();
+		if (Number(result.numInsertedOrUpdatedRows ?? 0) > 0) {
+			await recordAudit({ actorId, action: 'role.grant', subjectType: 'user', subjectId: userId, detail: { role } }, trx);
+		}
+	});
+}
+
+export async function revokeRole(actorId: string | null, userId: string, role: PlatformRole, db: DB = defaultDb) {
+	await inTransaction(db, async (trx) => {
+		const result = await trx
+			.deleteFrom('user_role')
+			.where('user_id', '=', userId)
+			.where('role', '=', role)
+			.executeTakeFirst();
+		if (Number(result.numDeletedRows) > 0) {
+			await recordAudit({ actorId, action: 'role.revoke', subjectType: 'user', subjectId: userId, detail: { role } }, trx);
+		}
+	});
+}
+
+/** Registrars may not remove their own registrar role: someone must be left to manage roles. */
+export class LastRegistrarError extends Error {
+	constructor() {
+		super('You cannot remove your own registrar role.');
+	}
+}

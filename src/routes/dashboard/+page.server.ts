@@ -1,0 +1,16 @@
+import { requireUser } from '$lib/server/authz';
+import { countPeople } from '$lib/server/users';
+import { listMembers } from '$lib/server/companies';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async (event) => {
+	const user = requireUser(event);
+	const adminOf = user.companies.filter((c) => c.role === 'admin');
+	const companies = await Promise.all(
+		adminOf.map(async (c) => ({ ...c, memberCount: (await listMembers(c.id)).length }))
+	);
+	return {
+		companies,
+		peopleCount: user.roles.includes('registrar') ? await countPeople() : null
+	};
+};

@@ -1,0 +1,8 @@
+import { redirect } from '@sveltejs/kit';
+import { requireRole } from '$lib/server/authz';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = (event) => {
+	requireRole(event, 'registrar');
+	redirect(303, '/registrar/people');
+};

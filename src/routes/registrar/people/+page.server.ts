@@ -1,0 +1,33 @@
+import { error } from '@sveltejs/kit';
+import { requireRole } from '$lib/server/authz';
+import { failWith, parseForm } from '$lib/server/form';
+import { roleChangeSchema } from '$lib/server/role-forms';
+import { grantRole, loadIdentity, revokeRole } from '$lib/server/roles';
+import { searchUsers } from '$lib/server/users';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async (event) => {
+	requireRole(event, 'registrar');
+	const q = (event.url.searchParams.get('q') ?? '').slice(0, 100);
+	const found = await searchUsers(q);
+	const people = await Promise.all(found.map(async (p) => ({ ...p, roles: (await loadIdentity(p.id))?.roles ?? [] })));
+	return { q, people };
+};
+
+async function change(event: Parameters<Actions[string]>[0], kind: 'grant' | 'revoke') {
+	const me = requireRole(event, 'registrar');
+	const parsed = await parseForm(event.request, roleChangeSchema);
+	if (!parsed.ok) return parsed.failure;
+	const { userId, role } = parsed.data;
+	if (!(await loadIdentity(userId))) error(404, 'No such person.');
+	if (kind === 'revoke' && userId === me.id && role === 'registrar') {
+		return failWith(409, parsed.form, 'You cannot remove your own registrar role: ask another registrar.');
+	}
+	await (kind === 'grant' ? grantRole(me.id, userId, role) : revokeRole(me.id, userId, role));
+	return { done: `${kind === 'grant' ? 'Granted' : 'Removed'} ${role}.` };
+}
+
+export const actions: Actions = {
+	grant: (event) => change(event, 'grant'),
+	revoke: (event) => change(event, 'revoke')
+};

@@ -1,0 +1,6 @@
+import { requireRole } from '$lib/server/authz';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = (event) => {
+	requireRole(event, 'trainer');
+};

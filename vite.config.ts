@@ -1,0 +1,16 @@
+import { sveltekit } from '@sveltejs/kit/vite';
+import tailwindcss from '@tailwindcss/vite';
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+	plugins: [tailwindcss(), sveltekit()],
+	server: {
+		fs: { allow: ['content', 'migrations'] }
+	},
+	test: {
+		include: ['src/**/*.test.ts', 'tests/unit/**/*.test.ts'],
+		environment: 'node',
+		testTimeout: 20_000,
+		fileParallelism: true
+	}
+});
