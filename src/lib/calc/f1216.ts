@@ -11,8 +11,11 @@ import { given, num, qty, Worksheet } from './worksheet';
 const PSI_PER_FT_WATER = 0.433;
 /** ASTM F1216 Eq. X1.4 minimum stiffness E I / D³ (psi). */
 const MIN_STIFFNESS_PSI = 0.093;
-/** ASTM F1216 X1: with no groundwater above the invert, a maximum DR of about 100 (from memory). */
-const MAX_DR_DRY = 100;
+/**
+ * ASTM F1216 X1: with no groundwater above the invert, a maximum DR of about 100 (from memory).
+ * Applied to every design here, which can only thicken a liner.
+ */
+const MAX_DR = 100;
 
 const DESIGN_CAUTION: Alert = {
 	level: 'caution',
@@ -46,7 +49,8 @@ export function bucklingDr(p: {
 
 /**
  * ASTM F1216 Eq. X1.2 (oval pipe, bending) solved for DR, the positive root of
- * 1.5 q (1 + q) DR² − 0.5 (1 + q) DR − σ_L / (P N) = 0, q as a fraction (q > 0).
+ * 1.5 q (1 + q) DR² − 0.5 (1 + q) DR − σ_L / (P N) = 0, q as a fraction.
+ * A round pipe (q = 0) sets no limit: Infinity.
  */
 export function bendingDr(p: {
 	ovalityPercent: number;
@@ -58,7 +62,9 @@ export function bendingDr(p: {
 	const a = 1.5 * q * (1 + q);
 	const b = -0.5 * (1 + q);
 	const c = -p.flexuralStrengthPsi / (p.pressurePsi * p.safetyFactor);
-	return (-b + Math.sqrt(b * b - 4 * a * c)) / (2 * a);
+	if (!(a > 0)) return Infinity;
+	const dr = (-b + Math.sqrt(b * b - 4 * a * c)) / (2 * a);
+	return Number.isNaN(dr) ? Infinity : dr;
 }
 
 // ---------------------------------------------------------------- partially deteriorated
@@ -74,23 +80,37 @@ export type F1216PartialInputs = {
 	flexuralStrengthPsi: number;
 };
 
-export function f1216Partial(i: F1216PartialInputs) {
+/** Every figure of the partially deteriorated design, including each check's own DR. */
+export function f1216PartialDetail(i: F1216PartialInputs) {
 	const ovalityFactorC = ovalityFactor(i.ovalityPercent);
-	const dry = i.pressurePsi === 0;
-	const drBuckling = dry ? Infinity : bucklingDr({ ...i, ovalityFactorC });
-	const drBending = dry || i.ovalityPercent === 0 ? Infinity : bendingDr(i);
-	const dr = dry ? MAX_DR_DRY : Math.min(drBuckling, drBending);
-	const governs = dry ? 'DR 100' : drBending < drBuckling ? 'X1.2' : 'X1.1';
+	const wet = i.pressurePsi > 0;
+	const drBuckling = wet ? bucklingDr({ ...i, ovalityFactorC }) : Infinity;
+	const drBending = wet && i.ovalityPercent > 0 ? bendingDr(i) : Infinity;
+	const dr = Math.min(drBuckling, drBending, MAX_DR);
+	const governs = dr === MAX_DR ? 'DR 100' : drBending < drBuckling ? 'X1.2' : 'X1.1';
 	const thicknessIn = i.diameterIn / dr;
 	return {
 		ovalityFactorC,
+		drBuckling,
+		drBending,
 		dr,
 		thicknessIn,
 		thicknessMm: convert(thicknessIn, 'in', 'mm'),
-		thicknessBucklingIn: Number.isFinite(drBuckling) ? i.diameterIn / drBuckling : 0,
-		thicknessBendingIn: Number.isFinite(drBending) ? i.diameterIn / drBending : 0,
+		// A check that sets no limit asks for no thickness.
+		thicknessBucklingIn: i.diameterIn / drBuckling,
+		thicknessBendingIn: i.diameterIn / drBending,
 		governs
 	};
+}
+
+/** The published results: each check's own DR stays out (it may be unbounded). */
+function partialResult(detail: ReturnType<typeof f1216PartialDetail>) {
+	const { ovalityFactorC, dr, thicknessIn, thicknessMm, thicknessBucklingIn, thicknessBendingIn, governs } = detail;
+	return { ovalityFactorC, dr, thicknessIn, thicknessMm, thicknessBucklingIn, thicknessBendingIn, governs };
+}
+
+export function f1216Partial(i: F1216PartialInputs) {
+	return partialResult(f1216PartialDetail(i));
 }
 
 const commonInputs = {
@@ -170,28 +190,28 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 	],
 	cautions: [DESIGN_CAUTION],
 	compute(i) {
-		const r = f1216Partial(i);
+		const r = f1216PartialDetail(i);
 		const w = new Worksheet([SOURCES.f1216X11, SOURCES.f1216X12, SOURCES.f1216Dr100]);
 		w.step(
 			`C = ((1 − q) ÷ (1 + q)²)³ = ((1 − ${given(i.ovalityPercent / 100)}) ÷ (1 + ${given(i.ovalityPercent / 100)})²)³ = ${num(r.ovalityFactorC)}`
 		);
-		if (i.pressurePsi === 0) {
-			w.step(`No groundwater above the invert: DR = ${MAX_DR_DRY}, t = D ÷ DR = ${given(i.diameterIn, 'in')} ÷ ${MAX_DR_DRY} = ${qty(r.thicknessIn, 'in')}`);
-		} else {
-			const drBuckling = i.diameterIn / r.thicknessBucklingIn;
+		if (Number.isFinite(r.drBuckling)) {
 			w.step(
-				`X1.1: DR = 1 + ∛(2 K E_L C ÷ ((1 − ν²) P N)) = 1 + ∛(2 × ${given(i.enhancementK)} × ${given(i.longTermModulusPsi, 'psi')} × ${num(r.ovalityFactorC)} ÷ ((1 − ${given(i.poisson)}²) × ${given(i.pressurePsi, 'psi')} × ${given(i.safetyFactor)})) = ${num(drBuckling)}; t = ${given(i.diameterIn, 'in')} ÷ ${num(drBuckling)} = ${qty(r.thicknessBucklingIn, 'in')}`
+				`X1.1: DR = 1 + ∛(2 K E_L C ÷ ((1 − ν²) P N)) = 1 + ∛(2 × ${given(i.enhancementK)} × ${given(i.longTermModulusPsi, 'psi')} × ${num(r.ovalityFactorC)} ÷ ((1 − ${given(i.poisson)}²) × ${given(i.pressurePsi, 'psi')} × ${given(i.safetyFactor)})) = ${num(r.drBuckling)}; t = ${given(i.diameterIn, 'in')} ÷ ${num(r.drBuckling)} = ${qty(r.thicknessBucklingIn, 'in')}`
 			);
-			if (r.thicknessBendingIn > 0) {
-				const drBending = i.diameterIn / r.thicknessBendingIn;
-				w.step(
-					`X1.2: 1.5 q (1 + q) DR² − 0.5 (1 + q) DR = σ_L ÷ (P N) = ${given(i.flexuralStrengthPsi, 'psi')} ÷ (${given(i.pressurePsi, 'psi')} × ${given(i.safetyFactor)}) gives DR = ${num(drBending)}; t = ${qty(r.thicknessBendingIn, 'in')}`
-				);
-			} else {
-				w.step('X1.2 does not apply: the host pipe is round (q = 0).');
-			}
-			w.step(`${r.governs} governs: DR = ${num(r.dr)}, t = ${qty(r.thicknessIn, 'in')} = ${qty(r.thicknessMm, 'mm')}`);
+		} else {
+			w.step('X1.1 sets no limit: no groundwater pressure above the invert.');
 		}
+		if (Number.isFinite(r.drBending)) {
+			w.step(
+				`X1.2: 1.5 q (1 + q) DR² − 0.5 (1 + q) DR = σ_L ÷ (P N) = ${given(i.flexuralStrengthPsi, 'psi')} ÷ (${given(i.pressurePsi, 'psi')} × ${given(i.safetyFactor)}) gives DR = ${num(r.drBending)}; t = ${qty(r.thicknessBendingIn, 'in')}`
+			);
+		} else {
+			w.step('X1.2 sets no limit: the host pipe is round or carries no groundwater pressure.');
+		}
+		w.step(
+			`${r.governs} governs (DR never above ${MAX_DR}): DR = ${num(r.dr)}, t = ${given(i.diameterIn, 'in')} ÷ ${num(r.dr)} = ${qty(r.thicknessIn, 'in')} = ${qty(r.thicknessMm, 'mm')}`
+		);
 		if (i.ovalityPercent > 10) {
 			w.warn(
 				'caution',
@@ -199,7 +219,7 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 				'Above 10 % ovality the host pipe may no longer count as partially deteriorated. Have an engineer check the design.'
 			);
 		}
-		return w.done(r);
+		return w.done(partialResult(r));
 	}
 };
 

@@ -299,7 +299,7 @@ export const mixRatioCalculator: CalculatorDef<MixRatioInputs> = {
 		}
 		if (i.totalL > 0) {
 			w.step(
-				`Mix mass = volume ÷ (fraction A ÷ ρA + fraction B ÷ ρB) = ${given(i.totalL, 'L')} ÷ ${num(r.mixL / r.mixKg)} L/kg = ${qty(r.mixKg, 'kg')}`
+				`Mix mass = volume ÷ (fraction A ÷ ρA + fraction B ÷ ρB) = ${given(i.totalL, 'L')} ÷ ${num(fractionA / i.densityAGcm3 + (1 - fractionA) / i.densityBGcm3)} L/kg = ${qty(r.mixKg, 'kg')}`
 			);
 		}
 		w.step(`Part A = ${qty(r.mixKg, 'kg')} × ${num(fractionA, 4)} = ${qty(r.partAKg, 'kg')} (${qty(r.partAL, 'L')})`);

@@ -8,6 +8,7 @@ import { unitLabel } from './units';
 export function num(value: number, significant = 3): string {
 	if (!Number.isFinite(value)) return String(value);
 	if (value === 0) return '0';
+	if (Math.abs(value) < 1e-6) return value.toExponential(significant - 1);
 	const magnitude = Math.floor(Math.log10(Math.abs(value)));
 	const decimals = Math.max(0, significant - 1 - magnitude);
 	return value.toLocaleString('en-US', {
