@@ -9,13 +9,18 @@ import { given, plain } from './worksheet';
 
 const NUMERIC = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
+/** Whether text is a plain decimal number such as "150", "-0.5" or "6e2". */
+export function isNumericText(text: string): boolean {
+	return NUMERIC.test(text);
+}
+
 /** Empty and null count as left out; numeric strings become numbers; anything else passes through to fail. */
 function readNumber(value: unknown): unknown {
 	if (value === null || value === undefined) return undefined;
 	if (typeof value === 'string') {
 		const trimmed = value.trim();
 		if (trimmed === '') return undefined;
-		return NUMERIC.test(trimmed) ? Number(trimmed) : value;
+		return isNumericText(trimmed) ? Number(trimmed) : value;
 	}
 	return value;
 }
