@@ -1,0 +1,60 @@
+import { expect, test, type Page } from '@playwright/test';
+
+/** Opens a calculator page and waits until it computes in the browser. */
+async function openCalculator(page: Page, id: string) {
+	await page.goto(`/tools/${id}`);
+	await expect(page.locator(`[data-calculator="${id}"]`)).toHaveAttribute('data-live', 'true');
+}
+
+/** The field calculator computes in the browser as the crew member types. */
+test.describe('resin quantity calculator', () => {
+	test('shows the DN150 check values and updates as inputs change', async ({ page }) => {
+		await openCalculator(page, 'resin-quantity');
+		await expect(page.getByRole('heading', { level: 1, name: 'Resin quantity' })).toBeVisible();
+
+		const withWaste = page.locator('[data-result="resinWithWasteKg"]');
+		// DN150, 600 mm, 3 plies of 1000 g/m², ratio 1.2, 15 % waste: 1.17 kg (hand-worked).
+		await page.getByLabel(/Pipe internal diameter/).fill('150');
+		await page.getByLabel(/Patch length/).fill('600');
+		await expect(withWaste).toHaveText('1.17 kg');
+		await expect(page.locator('[data-result="matAreaM2"]')).toHaveText('0.848 m²');
+		await expect(page.getByText('Mat area = n × π × D × L = 3 × π × 0.150 m × 0.600 m = 0.848 m²')).toBeVisible();
+
+		// Resin grows linearly with length: twice the patch, twice the resin.
+		await page.getByLabel(/Patch length/).fill('1200');
+		await expect(withWaste).toHaveText('2.34 kg');
+
+		// An out-of-range value is named at the field, and no stale result is shown.
+		await page.getByLabel(/Pipe internal diameter/).fill('20');
+		await expect(page.getByText('Must be between 50 and 1600 mm')).toBeVisible();
+		await expect(withWaste).toHaveCount(0);
+
+		await page.getByLabel(/Pipe internal diameter/).fill('150');
+		await expect(withWaste).toHaveText('2.34 kg');
+	});
+
+	test('switches to imperial units without changing the answer', async ({ page }) => {
+		await openCalculator(page, 'resin-quantity');
+		const withWaste = page.locator('[data-result="resinWithWasteKg"]');
+		await expect(withWaste).toHaveText('1.17 kg');
+
+		await page.getByRole('button', { name: 'Imperial' }).click();
+		await expect(page.getByRole('button', { name: 'Imperial' })).toHaveAttribute('aria-pressed', 'true');
+		await expect(page.getByLabel(/Pipe internal diameter/)).toHaveValue('5.906');
+		// 1.17056 kg = 2.58 lb (1 lb = 0.45359237 kg).
+		await expect(withWaste).toHaveText('2.58 lb');
+
+		await page.getByLabel(/Pipe internal diameter/).fill('6');
+		await expect(page.getByLabel(/Pipe internal diameter/)).toHaveValue('6');
+		await expect(withWaste).not.toHaveText('2.58 lb');
+	});
+
+	test('shows the resin caution and links to the lesson', async ({ page }) => {
+		await openCalculator(page, 'resin-quantity');
+		await expect(page.getByRole('note', { name: /Resins sensitise skin/ })).toBeVisible();
+		await expect(page.getByRole('link', { name: 'The lesson that explains this' })).toHaveAttribute(
+			'href',
+			'/courses/point-repair-installer/resin-quantity'
+		);
+	});
+});
