@@ -11,20 +11,24 @@ export function num(value: number, significant = 3): string {
 	if (Math.abs(value) < 1e-6) return value.toExponential(significant - 1);
 	const magnitude = Math.floor(Math.log10(Math.abs(value)));
 	const decimals = Math.max(0, significant - 1 - magnitude);
-	return value.toLocaleString('en-US', {
-		minimumFractionDigits: decimals,
-		maximumFractionDigits: decimals,
-		useGrouping: Math.abs(value) >= 10_000
-	});
+	return groupThousands(value.toFixed(decimals));
 }
 
 /** A number as a person typed it: at most `significant` figures, no padding zeros: 50, 0.3, 125,000. */
 export function plain(value: number, significant = 6): string {
 	if (!Number.isFinite(value)) return String(value);
-	return roundSignificant(value, significant).toLocaleString('en-US', {
-		maximumFractionDigits: 20,
-		useGrouping: Math.abs(value) >= 10_000
-	});
+	return groupThousands(String(roundSignificant(value, significant)));
+}
+
+/**
+ * Commas between thousands from 10,000 up ("125000.5" -> "125,000.5"). Done by hand because
+ * Intl number formatting costs more than the calculation it would print.
+ */
+function groupThousands(text: string): string {
+	const match = /^(-?)(\d{5,})(\.\d+)?$/.exec(text);
+	if (!match) return text;
+	const [, sign, whole, fraction = ''] = match;
+	return `${sign}${whole.replace(/\B(?=(\d{3})+$)/g, ',')}${fraction}`;
 }
 
 /** An input value with its unit, shown as given: "150 mm", "15 %", "20 °C". */
