@@ -2,7 +2,7 @@
  * Materials for a straight point repair: glass mat, resin, laminate volume, mix ratio.
  */
 import { SOURCES } from './sources';
-import type { Alert, CalculatorDef } from './types';
+import type { Alert, CalculatorDef, InputSpec } from './types';
 import { given, num, qty, Worksheet } from './worksheet';
 
 const RESIN_DATA_SHEET: Alert = {
@@ -10,6 +10,10 @@ const RESIN_DATA_SHEET: Alert = {
 	title: 'Resins sensitise skin',
 	text: 'Wear laminate-film or thick nitrile gloves (with spares), an apron and eye protection. The resin data sheet and safety data sheet come before any figure here.'
 };
+
+const PIPE_DIAMETER_MM: InputSpec = { name: 'diameterMm', label: 'Pipe internal diameter', unit: 'mm', default: 150, min: 50, max: 1600, step: 1 };
+const PATCH_LENGTH_MM: InputSpec = { name: 'lengthMm', label: 'Patch length', unit: 'mm', default: 600, min: 100, max: 6000, step: 10 };
+const PLIES: InputSpec = { name: 'plies', label: 'Plies of mat', unit: '', default: 3, min: 1, max: 8, step: 1, integer: true };
 
 // ---------------------------------------------------------------- resin quantity
 
@@ -41,9 +45,9 @@ export const resinQuantityCalculator: CalculatorDef<ResinQuantityInputs> = {
 	lesson: '/courses/point-repair-installer/resin-quantity',
 	system: 'metric',
 	inputs: [
-		{ name: 'diameterMm', label: 'Pipe internal diameter', unit: 'mm', default: 150, min: 50, max: 1600, step: 1 },
-		{ name: 'lengthMm', label: 'Patch length', unit: 'mm', default: 600, min: 100, max: 6000, step: 10 },
-		{ name: 'plies', label: 'Plies of mat', unit: '', default: 3, min: 1, max: 8, step: 1, integer: true },
+		PIPE_DIAMETER_MM,
+		PATCH_LENGTH_MM,
+		PLIES,
 		{ name: 'matWeightGm2', label: 'Mat weight', unit: 'g/m2', default: 1000, min: 100, max: 3000, step: 10 },
 		{
 			name: 'resinGlassRatio',
@@ -111,9 +115,9 @@ export const laminateVolumeCalculator: CalculatorDef<LaminateVolumeInputs> = {
 	lesson: '/courses/point-repair-installer/resin-quantity',
 	system: 'metric',
 	inputs: [
-		{ name: 'diameterMm', label: 'Pipe internal diameter', unit: 'mm', default: 150, min: 50, max: 1600, step: 1 },
+		PIPE_DIAMETER_MM,
 		{ name: 'thicknessMm', label: 'Laminate thickness', unit: 'mm', default: 3, min: 0.5, max: 50, step: 0.1 },
-		{ name: 'lengthMm', label: 'Patch length', unit: 'mm', default: 600, min: 100, max: 6000, step: 10 }
+		PATCH_LENGTH_MM
 	],
 	results: [{ name: 'volumeL', label: 'Laminate volume', unit: 'L' }],
 	check(i) {
@@ -161,7 +165,7 @@ export const matSizeCalculator: CalculatorDef<MatSizeInputs> = {
 			step: 1,
 			help: 'For a transition, the larger diameter.'
 		},
-		{ name: 'plies', label: 'Plies of mat', unit: '', default: 3, min: 1, max: 8, step: 1, integer: true },
+		PLIES,
 		{ name: 'overlapMm', label: 'Overlap of the last ply', unit: 'mm', default: 50, min: 0, max: 500, step: 5 },
 		{
 			name: 'patchLengthMm',

@@ -2,7 +2,7 @@
  * Packer pressure: groundwater head, the pressure window, end thrust.
  */
 import { SOURCES } from './sources';
-import type { Alert, CalculatorDef } from './types';
+import type { Alert, CalculatorDef, InputSpec } from './types';
 import { convert } from './units';
 import { given, num, plain, qty, Worksheet } from './worksheet';
 
@@ -20,6 +20,20 @@ export const PRESSURE_CAUTIONS: Alert[] = [
 	}
 ];
 
+/** The head of water over the pipe, as both the head and the window calculators take it. */
+function waterAboveInvert(name: string): InputSpec {
+	return {
+		name,
+		label: 'Water above the pipe invert',
+		unit: 'm',
+		default: 3,
+		min: 0,
+		max: 50,
+		step: 0.1,
+		help: 'Include any sewage standing in laterals above the pipe.'
+	};
+}
+
 // ---------------------------------------------------------------- groundwater head
 
 export type GroundwaterHeadInputs = { headM: number };
@@ -36,16 +50,7 @@ export const groundwaterHeadCalculator: CalculatorDef<GroundwaterHeadInputs> = {
 	lesson: '/courses/packer-pressure-safety/groundwater-head-and-pressure-window',
 	system: 'metric',
 	inputs: [
-		{
-			name: 'headM',
-			label: 'Water above the pipe invert',
-			unit: 'm',
-			default: 3,
-			min: 0,
-			max: 50,
-			step: 0.1,
-			help: 'Include any sewage standing in laterals above the pipe.'
-		}
+		waterAboveInvert('headM')
 	],
 	results: [
 		{ name: 'pressureKPa', label: 'Pressure', unit: 'kPa' },
@@ -89,16 +94,7 @@ export const pressureWindowCalculator: CalculatorDef<PressureWindowInputs> = {
 	lesson: '/courses/packer-pressure-safety/groundwater-head-and-pressure-window',
 	system: 'metric',
 	inputs: [
-		{
-			name: 'groundwaterHeadM',
-			label: 'Water above the pipe invert',
-			unit: 'm',
-			default: 3,
-			min: 0,
-			max: 50,
-			step: 0.1,
-			help: 'Include any sewage standing in laterals above the pipe.'
-		},
+		waterAboveInvert('groundwaterHeadM'),
 		{ name: 'marginBar', label: 'Margin above the head', unit: 'bar', default: 0.3, min: 0, max: 3, step: 0.05 },
 		{
 			name: 'ratedMaxBar',
