@@ -2,7 +2,6 @@ import { KyselyAdapter } from '@auth/kysely-adapter';
 import { SvelteKitAuth, type SvelteKitAuthConfig } from '@auth/sveltekit';
 import Credentials from '@auth/sveltekit/providers/credentials';
 import Nodemailer from '@auth/sveltekit/providers/nodemailer';
-import { env } from '$env/dynamic/private';
 import { dev } from '$app/environment';
 import { config } from './config';
 import { getDb } from './db';
@@ -13,6 +12,7 @@ import { signInSchema } from '$lib/forms';
 const DEV_SECRET = 'patchwright-development-secret-do-not-use-in-production';
 
 function authSecret(): string {
+	const env = process.env;
 	if (env.AUTH_SECRET) return env.AUTH_SECRET;
 	if (dev || env.NODE_ENV === 'test') return DEV_SECRET;
 	throw new Error('AUTH_SECRET must be set (see .env.example).');

@@ -1,7 +1,11 @@
-import { env } from '$env/dynamic/private';
 import path from 'node:path';
 
-/** Runtime settings, read from the environment (see .env.example). */
+/**
+ * Runtime settings, read from the environment (see .env.example) on each use, so tests
+ * and scripts that set process.env see their values. Server-only.
+ */
+const env = process.env;
+
 export const config = {
 	get dataDir() {
 		return path.resolve(env.DATA_DIR || './data');

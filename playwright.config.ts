@@ -1,0 +1,59 @@
+import { defineConfig, devices } from '@playwright/test';
+
+/**
+ * End-to-end tests run the built app (`vite build` first) with the local fakes, in Debian's
+ * Chromium. Each run starts from an empty data folder seeded with the demo scenario.
+ */
+const PORT = Number(process.env.E2E_PORT || 4173);
+const MAIL_SMTP_PORT = Number(process.env.E2E_SMTP_PORT || 2626);
+const MAIL_HTTP_PORT = Number(process.env.E2E_MAIL_HTTP_PORT || 8126);
+const artifacts = 'tests/.artifacts';
+export const baseURL = `http://localhost:${PORT}`;
+export const inboxURL = `http://127.0.0.1:${MAIL_HTTP_PORT}/`;
+
+export default defineConfig({
+	testDir: 'tests/e2e',
+	outputDir: `${artifacts}/results`,
+	fullyParallel: false,
+	workers: 1,
+	retries: 0,
+	timeout: 30_000,
+	reporter: process.env.CI ? [['list'], ['json', { outputFile: `${artifacts}/playwright.json` }]] : [['list'], ['json', { outputFile: `${artifacts}/playwright.json` }]],
+	use: {
+		baseURL,
+		trace: 'retain-on-failure',
+		screenshot: 'only-on-failure',
+		launchOptions: {
+			executablePath: '/usr/bin/chromium',
+			args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run']
+		}
+	},
+	projects: [{ name: 'chromium', use: { ...devices['Desktop Chrome'], channel: undefined } }],
+	webServer: [
+		{
+			command: `node --import jiti/register scripts/fakes.ts`,
+			url: inboxURL,
+			reuseExistingServer: false,
+			env: { DATA_DIR: `${artifacts}/e2e-fakes`, MAIL_SMTP_PORT: String(MAIL_SMTP_PORT), MAIL_HTTP_PORT: String(MAIL_HTTP_PORT) },
+			stdout: 'ignore'
+		},
+		{
+			command: `rm -rf ${artifacts}/e2e-data && node build`,
+			url: `${baseURL}/api/v1/health`,
+			reuseExistingServer: false,
+			timeout: 60_000,
+			env: {
+				PORT: String(PORT),
+				ORIGIN: baseURL,
+				DATA_DIR: `${artifacts}/e2e-data`,
+				AUTH_SECRET: 'e2e-only-secret-not-for-production',
+				SMTP_URL: `smtp://127.0.0.1:${MAIL_SMTP_PORT}`,
+				FAKES: '1',
+				FAKE_INBOX_URL: inboxURL,
+				SEED_DEMO: '1',
+				SIGN_IN_LIMIT_PER_IP: '100000'
+			},
+			stdout: 'pipe'
+		}
+	]
+});

@@ -1,0 +1,99 @@
+import { expect, request as newRequest, test } from '@playwright/test';
+import { baseURL, signInRequest, who, type Identity } from './support';
+
+/**
+ * Who may open what. `ok` is 200; `in` is a redirect to sign-in; a number is that status.
+ * Every page and API route that exists so far is listed; later features add rows.
+ */
+type Expect = 'ok' | 'in' | 'dash' | 401 | 403 | 404;
+const identities: Identity[] = ['anonymous', 'trainee', 'trainer', 'companyAdmin', 'inspector', 'registrar'];
+
+const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expect }][] = [
+	['/', 'ok'],
+	['/about', 'ok'],
+	['/sign-in', { anonymous: 'ok', other: 'dash' }],
+	['/sign-up', { anonymous: 'ok', other: 'dash' }],
+	['/reset-password', 'ok'],
+	['/dashboard', { anonymous: 'in', other: 'ok' }],
+	['/trainer', { anonymous: 'in', trainer: 'ok', other: 403 }],
+	['/inspector', { anonymous: 'in', inspector: 'ok', other: 403 }],
+	['/company', { anonymous: 'in', companyAdmin: 'ok', other: 403 }],
+	['/registrar/people', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	['/registrar/audit', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	['/api/v1/health', 'ok'],
+	['/api/v1/me', { anonymous: 401, other: 'ok' }],
+	['/no-such-page', 404],
+	['/api/v1/no-such-route', 404]
+];
+
+function expected(rule: (typeof table)[number][1], identity: Identity): Expect {
+	if (typeof rule !== 'object') return rule;
+	return rule[identity] ?? rule.other;
+}
+
+for (const identity of identities) {
+	test(`access as ${identity}`, async () => {
+		const request = await newRequest.newContext({ baseURL });
+		if (identity !== 'anonymous') await signInRequest(request, who[identity]);
+		for (const [path, rule] of table) {
+			const want = expected(rule, identity);
+			const response = await request.get(path, { maxRedirects: 0 });
+			const label = `${identity} GET ${path}`;
+			if (want === 'ok') expect(response.status(), label).toBe(200);
+			else if (want === 'in') {
+				expect(response.status(), label).toBe(303);
+				expect(response.headers().location, label).toMatch(/^\/sign-in\?next=/);
+			} else if (want === 'dash') {
+				expect(response.status(), label).toBe(303);
+				expect(response.headers().location, label).toBe('/dashboard');
+			} else expect(response.status(), label).toBe(want);
+			if (want === 403) {
+				// A refusal leaks nothing of the page behind it, such as other people's addresses.
+				const body = await response.text();
+				for (const other of [...Object.values(who), 'priya@brindlewick.test']) {
+					if (identity === 'anonymous' || other !== who[identity]) expect(body, label).not.toContain(other);
+				}
+			}
+		}
+		await request.dispose();
+	});
+}
+
+test('the registrar grants a role, the person gains the page, and the audit log shows it', async ({ page, browser }) => {
+	const person = 'priya@brindlewick.test';
+	const registrar = await newRequest.newContext({ baseURL });
+	await signInRequest(registrar, who.registrar);
+	const priya = await newRequest.newContext({ baseURL });
+	await signInRequest(priya, person);
+	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(403);
+
+	await page.context().addCookies((await registrar.storageState()).cookies);
+	await page.goto(`/registrar/people?q=priya`);
+	await page.getByRole('button', { name: `Grant Trainer for ${person}` }).click();
+	await expect(page.getByRole('status')).toContainText('Granted trainer');
+	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(200);
+
+	await page.goto('/registrar/audit');
+	await expect(page.getByRole('row').filter({ hasText: 'role.grant' }).first()).toContainText('trainer');
+
+	await page.goto(`/registrar/people?q=priya`);
+	await page.getByRole('button', { name: `Remove Trainer for ${person}` }).click();
+	await expect(page.getByRole('status')).toContainText('Removed trainer');
+	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(403);
+	await registrar.dispose();
+	await priya.dispose();
+	void browser;
+});
+
+test('a role change with a forged person id is refused with a clear message', async () => {
+	const registrar = await newRequest.newContext({ baseURL });
+	await signInRequest(registrar, who.registrar);
+	const response = await registrar.post('/registrar/people?/grant', {
+		form: { userId: 'not-a-uuid', role: 'emperor' },
+		headers: { origin: baseURL, accept: 'application/json' }
+	});
+	const body = await response.json();
+	expect(body.type).toBe('failure');
+	expect(body.status).toBe(400);
+	await registrar.dispose();
+});

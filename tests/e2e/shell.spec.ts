@@ -1,0 +1,48 @@
+import { expect, test } from '@playwright/test';
+import { baseURL, signInWithPassword, who } from './support';
+
+test('no page requests anything from another origin', async ({ page }) => {
+	const outside: string[] = [];
+	page.on('request', (r) => {
+		const url = r.url();
+		if (!url.startsWith(baseURL) && !url.startsWith('data:')) outside.push(url);
+	});
+	for (const path of ['/', '/about', '/sign-in', '/sign-up']) {
+		await page.goto(path);
+		await page.waitForLoadState('networkidle');
+	}
+	await signInWithPassword(page, who.registrar);
+	for (const path of ['/dashboard', '/registrar/people', '/registrar/audit']) {
+		await page.goto(path);
+		await page.waitForLoadState('networkidle');
+	}
+	expect(outside).toEqual([]);
+	// Lora is served by the app itself.
+	const fonts = await page.evaluate(() => [...document.fonts].filter((f) => f.status === 'loaded').map((f) => f.family));
+	expect(fonts.join(',')).toContain('Lora');
+});
+
+test('the About page is rendered from Markdown with highlighted code', async ({ page }) => {
+	await page.goto('/about');
+	await expect(page.getByRole('heading', { level: 1, name: 'About Patchwright' })).toBeVisible();
+	await expect(page.locator('pre.shiki')).toContainText('/api/v1/calculations/end-thrust');
+});
+
+test('at phone width every dashboard is usable and the menu opens', async ({ page }) => {
+	await page.setViewportSize({ width: 360, height: 780 });
+	for (const [role, email] of Object.entries(who)) {
+		await signInWithPassword(page, email);
+		const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+		expect(overflow, `${role} dashboard scrolls sideways`).toBeLessThanOrEqual(0);
+		await page.screenshot({ path: `tests/.artifacts/screens/dashboard-${role}-360.png`, fullPage: true });
+		await page.getByRole('button', { name: 'Menu' }).click();
+		await page.locator('#mobile-menu').getByRole('button', { name: 'Sign out' }).click();
+		await expect(page).toHaveURL(baseURL + '/');
+	}
+});
+
+test('unknown pages get a friendly 404', async ({ page }) => {
+	const response = await page.goto('/no-such-page');
+	expect(response?.status()).toBe(404);
+	await expect(page.getByRole('heading', { name: 'We could not find that page' })).toBeVisible();
+});
