@@ -10,6 +10,8 @@ export interface DemoPerson {
 	email: string;
 	roles: ('trainer' | 'inspector' | 'registrar')[];
 	company?: { name: string; role: 'admin' | 'member' };
+	/** Courses the demo enrols the person in directly (seats and payment come later). */
+	enrolments?: string[];
 	/** What the person is in the demo, printed beside the login. */
 	part: string;
 }
@@ -22,10 +24,10 @@ export const DEMO_PEOPLE: DemoPerson[] = [
 	{ name: 'Mira Calloway', email: 'trainer@fenmoor.test', roles: ['trainer'], part: 'trainer at the training provider' },
 	{ name: 'Theo Brannock', email: 'inspector@waterboard.test', roles: ['inspector'], part: "pipe owner's site inspector" },
 	{ name: 'Jo Penhallow', email: 'admin@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'admin' }, part: 'company admin, Brindlewick Drainage' },
-	{ name: 'Sam Okafor', email: 'sam@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage' },
-	{ name: 'Priya Venn', email: 'priya@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage' },
-	{ name: 'Luca Marsh', email: 'luca@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage' },
+	{ name: 'Sam Okafor', email: 'sam@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
+	{ name: 'Priya Venn', email: 'priya@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
+	{ name: 'Luca Marsh', email: 'luca@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
 	{ name: 'Dana Whitlow', email: 'admin@tarnside.test', roles: ['trainer'], company: { name: 'Tarnside Pipe Works', role: 'admin' }, part: 'company admin and trainer, Tarnside Pipe Works' },
-	{ name: 'Ade Kowal', email: 'ade@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works' },
-	{ name: 'Finn Ostrander', email: 'finn@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works' }
+	{ name: 'Ade Kowal', email: 'ade@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works', enrolments: ['point-repair-installer', 'transition-patches', 'packer-pressure-safety'] },
+	{ name: 'Finn Ostrander', email: 'finn@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works', enrolments: ['point-repair-installer', 'transition-patches', 'packer-pressure-safety'] }
 ];

@@ -4,6 +4,7 @@ import { DEMO_COMPANIES, DEMO_PASSWORD, DEMO_PEOPLE } from './demo-people';
 import { grantRole } from './roles';
 import { createUser } from './users';
 import { hashPassword } from './passwords';
+import { enrol } from './enrolments';
 
 /** Seeds the invented demo scenario into an empty database; does nothing otherwise. */
 export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
@@ -18,6 +19,7 @@ export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
 			await trx.updateTable('User').set({ passwordHash }).where('id', '=', user.id).execute();
 			for (const role of person.roles) await grantRole(null, user.id, role, trx);
 			if (person.company) await addMember(null, companyIds.get(person.company.name)!, user.id, person.company.role, trx);
+			for (const course of person.enrolments ?? []) await enrol(null, user.id, course, 'demo', trx);
 		}
 	});
 	return true;

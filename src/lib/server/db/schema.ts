@@ -81,6 +81,14 @@ export interface AuditLogTable {
 	detail: Generated<string>;
 }
 
+export interface EnrolmentTable {
+	user_id: string;
+	course_slug: string;
+	enrolled_at: string;
+	/** How the enrolment came about: 'demo', 'registrar', later 'seat'. */
+	source: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -91,6 +99,7 @@ export interface Database {
 	membership: MembershipTable;
 	password_reset: PasswordResetTable;
 	audit_log: AuditLogTable;
+	enrolment: EnrolmentTable;
 }
 
 export type User = Selectable<UserTable>;

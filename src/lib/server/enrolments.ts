@@ -1,0 +1,35 @@
+import { recordAudit } from './audit';
+import { db as defaultDb, inTransaction, type DB } from './db';
+
+export async function isEnrolled(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
+	const row = await db
+		.selectFrom('enrolment')
+		.select('user_id')
+		.where('user_id', '=', userId)
+		.where('course_slug', '=', courseSlug)
+		.executeTakeFirst();
+	return !!row;
+}
+
+export async function listEnrolments(userId: string, db: DB = defaultDb) {
+	return db
+		.selectFrom('enrolment')
+		.select(['course_slug', 'enrolled_at', 'source'])
+		.where('user_id', '=', userId)
+		.orderBy('enrolled_at')
+		.execute();
+}
+
+/** Enrols a person in a course; does nothing when already enrolled. */
+export async function enrol(actorId: string | null, userId: string, courseSlug: string, source: string, db: DB = defaultDb) {
+	await inTransaction(db, async (trx) => {
+		const result = await trx
+			.insertInto('enrolment')
+			.values({ user_id: userId, course_slug: courseSlug, enrolled_at: new Date().toISOString(), source })
+			.onConflict((oc) => oc.doNothing())
+			.executeTakeFirst();
+		if (Number(result.numInsertedOrUpdatedRows ?? 0) > 0) {
+			await recordAudit({ actorId, action: 'enrolment.create', subjectType: 'user', subjectId: userId, detail: { courseSlug, source } }, trx);
+		}
+	});
+}
