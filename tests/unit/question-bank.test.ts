@@ -258,58 +258,61 @@ const RECOMPUTE: Record<string, () => Unit> = {
 	'pri-014': () => unit((1170 * 45) / 145, 'g'),
 	// Patch length = defect + overlap at each end.
 	'pri-018': () => unit(300 + 2 * 150, 'mm'),
-	'pri-019': () => unit(420 + 2 * 300, 'mm'),
+	'pri-019': () => unit(380 + 2 * 300, 'mm'),
 	// Mat width around = plies x circumference (+ overlap where stated).
 	'pri-020': () => unit(3 * PI * 150, 'mm'),
-	'pri-021': () => unit(2 * PI * 200 + 50, 'mm'),
+	'pri-021': () => unit(2 * PI * 225 + 40, 'mm'),
 	// ASTM D3034 SDR 35: minimum wall = OD / 35.
 	'pri-024': () => unit(6.275 - (2 * 6.275) / 35, 'inch'),
 	// Resin = glass x ratio x (1 + waste).
 	'pri-025': () => unit(matArea(3, 150, 600) * 1.0 * 1.2 * 1.15, 'kg'),
-	'pri-026': () => unit(matArea(3, 100, 500) * 0.9, 'kg'),
+	'pri-026': () => unit(matArea(4, 150, 400) * 0.6, 'kg'),
 	'pri-027': () => unit(matArea(3, 200, 800) * 1.0 * 1.3 * 1.1, 'kg'),
 	// Annulus volume pi/4 (D^2 - (D - 2t)^2) L, written out independently of pi t (D - t) L.
 	'pri-028': () => unit((PI / 4) * (150 ** 2 - (150 - 12) ** 2) * 600, 'mm^3'),
 	'pri-029': () => unit(matArea(2, 300, 1000), 'm^2'),
-	'pri-043': () => waterHead(4.0),
-	'pri-048': () => cureMinutes(120, 20, 10),
-	'pri-049': () => cureMinutes(150, 20, 30),
-	'pri-054': () => waterAllowance([[150, 30]], 0.15),
+	'pri-043': () => waterHead(3.5),
+	'pri-048': () => cureMinutes(100, 22, 12),
+	'pri-049': () => cureMinutes(180, 20, 30),
+	'pri-054': () => waterAllowance([[225, 40]], 0.15),
 	'pri-055': () => airTest(6, 200, 1.0),
 
-	'tp-008': () => unit(slant(100, 150, 100), 'mm'),
-	'tp-009': () => taperArea(100, 150, 100),
+	'tp-008': () => unit(slant(100, 150, 60), 'mm'),
+	'tp-009': () => taperArea(100, 150, 60),
 	'tp-010': () => taperArea(150, 225, 150),
 	// Flat pattern of a frustum: outer radius = s x r2 / (r2 - r1).
-	'tp-011': () => unit((slant(100, 150, 100) * 75) / 25, 'mm'),
+	'tp-011': () => unit((slant(100, 150, 60) * 75) / 25, 'mm'),
 	'tp-012': () =>
 		add(unit(matArea(1, 100, 200) + matArea(1, 150, 200), 'm^2'), taperArea(100, 150, 100)),
 	'tp-013': () => unit(3 * PI * 225, 'mm'),
 	'tp-020': () => waterHead(2.5),
 	// Step thrust = p x (A_large - A_small).
-	'tp-032': () => subtract(thrust(unit(2.0, 'bar'), 150), thrust(unit(2.0, 'bar'), 100)),
-	'tp-033': () => subtract(thrust(unit(1.5, 'bar'), 225), thrust(unit(1.5, 'bar'), 150)),
+	'tp-032': () => subtract(thrust(unit(2.5, 'bar'), 150), thrust(unit(2.5, 'bar'), 100)),
+	'tp-033': () => subtract(thrust(unit(1.2, 'bar'), 225), thrust(unit(1.2, 'bar'), 150)),
 	// Lifted end: repair when the lift exceeds 5 % of the diameter (handbook).
 	'tp-039': () => unit(0.05 * 150, 'mm'),
 	'tp-045': () =>
-		waterAllowance(
-			[
-				[100, 10],
-				[150, 10]
-			],
-			0.15
+		add(
+			waterAllowance(
+				[
+					[100, 10],
+					[150, 10]
+				],
+				0.15
+			),
+			unit(taperArea(100, 150, 100).toNumber('m^2') * 0.15, 'L')
 		),
 
 	'pps-001': () => unit(1.5, 'bar'),
 	'pps-002': () => unit(30, 'psi'),
-	'pps-003': () => waterHead(5),
+	'pps-003': () => waterHead(7),
 	// 1 ft of water, 30.48 cmH2O.
 	'pps-004': () => unit(12 * 30.48, 'cmH2O'),
 	'pps-008': () => waterHead(3.8 - 1.2),
 	'pps-009': () => add(waterHead(6), unit(0.5, 'bar')),
 	// Same bladder hoop load p x D: p2 = p1 x D1 / D2.
 	'pps-016': () => unit((2.5 * 100) / 200, 'bar'),
-	'pps-021': () => thrust(unit(2.5, 'bar'), 100),
+	'pps-021': () => thrust(unit(2.5, 'bar'), 150),
 	'pps-022': () => thrust(unit(1.5, 'bar'), 200),
 	'pps-023': () => thrust(unit(1.0, 'bar'), 300),
 	'pps-024': () => thrust(unit(30, 'psi'), 100),
