@@ -89,6 +89,14 @@ export interface EnrolmentTable {
 	source: string;
 }
 
+/** A lesson the person marked as done (slugs name content, not rows). */
+export interface LessonProgressTable {
+	user_id: string;
+	course_slug: string;
+	lesson_slug: string;
+	completed_at: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -100,6 +108,7 @@ export interface Database {
 	password_reset: PasswordResetTable;
 	audit_log: AuditLogTable;
 	enrolment: EnrolmentTable;
+	lesson_progress: LessonProgressTable;
 }
 
 export type User = Selectable<UserTable>;
