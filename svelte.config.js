@@ -9,6 +9,21 @@ const config = {
 	preprocess: [vitePreprocess(), mdsvex(mdsvexConfig)],
 	kit: {
 		adapter: adapter(),
+		// Everything a page needs ships with the app: nothing is loaded from another origin.
+		csp: {
+			mode: 'auto',
+			directives: {
+				'default-src': ['self'],
+				'script-src': ['self'],
+				'style-src': ['self', 'unsafe-inline'],
+				'img-src': ['self', 'data:', 'blob:'],
+				'font-src': ['self', 'data:'],
+				'connect-src': ['self'],
+				'object-src': ['none'],
+				'base-uri': ['self'],
+				'frame-ancestors': ['none']
+			}
+		},
 		alias: {
 			$content: 'content',
 			$migrations: 'migrations'
