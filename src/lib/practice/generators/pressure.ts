@@ -120,13 +120,14 @@ export const pressureWindowGenerator: Generator = {
 		if (rng.chance(0.5)) {
 			const d = proposeDecision(rng);
 			const reading = d.inPsi ? g(d.proposed, 'psi') : g(d.proposed, 'bar');
+			const given: Record<string, number> = d.inPsi ? { proposedBar: d.proposedBar, proposedPsi: d.proposed } : { proposedBar: d.proposedBar };
 			return {
 				kind: 'choice',
 				choices: DECISIONS,
 				inputs: { groundwaterHeadM: d.headM, marginBar: d.marginBar, ratedMaxBar: d.ratedMaxBar },
 				asks: 'decision',
 				unit: '',
-				given: { proposedBar: d.proposedBar, ...(d.inPsi ? { proposedPsi: d.proposed } : {}) },
+				given,
 				prompt:
 					`A packer for a ${g(d.diameterMm, 'mm')} pipe is rated by its maker at ${g(d.ratedMaxBar, 'bar')} for that diameter. ` +
 					`Groundwater stands ${g(d.headM, 'm')} above the invert, and the crew keeps a margin of ${g(d.marginBar, 'bar')} above the head. ` +
