@@ -38,7 +38,7 @@ export default defineConfig({
 			stdout: 'ignore'
 		},
 		{
-			command: `rm -rf ${artifacts}/e2e-data && node build`,
+			command: `rm -rf ${artifacts}/e2e-data && node ${process.env.BUILD_DIR || 'build'}`,
 			url: `${baseURL}/api/v1/health`,
 			reuseExistingServer: false,
 			timeout: 60_000,

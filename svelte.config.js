@@ -8,7 +8,8 @@ const config = {
 	extensions: ['.svelte', ...mdsvexConfig.extensions],
 	preprocess: [vitePreprocess(), mdsvex(mdsvexConfig)],
 	kit: {
-		adapter: adapter(),
+		// BUILD_DIR lets a second build (for example a test run) sit beside the main one.
+		adapter: adapter({ out: process.env.BUILD_DIR || 'build' }),
 		// Everything a page needs ships with the app: nothing is loaded from another origin.
 		csp: {
 			mode: 'auto',
