@@ -97,6 +97,28 @@ export interface LessonProgressTable {
 	completed_at: string;
 }
 
+/** A course test attempt. JSON columns: `items` (the draw), `answers` (by position), `results` (per item). */
+export interface TestAttemptTable {
+	id: string;
+	user_id: string;
+	course_slug: string;
+	started_at: string;
+	deadline_at: string | null;
+	submitted_at: string | null;
+	closed_by: 'person' | 'time limit' | null;
+	draw_seed: number;
+	items: string;
+	answers: Generated<string>;
+	item_count: number;
+	pass_mark: number;
+	correct_count: number | null;
+	score_percent: number | null;
+	passed: 0 | 1 | null;
+	results: string | null;
+	wait_waived_at: string | null;
+	wait_waived_by: string | null;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -109,6 +131,7 @@ export interface Database {
 	audit_log: AuditLogTable;
 	enrolment: EnrolmentTable;
 	lesson_progress: LessonProgressTable;
+	test_attempt: TestAttemptTable;
 }
 
 export type User = Selectable<UserTable>;

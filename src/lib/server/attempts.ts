@@ -1,0 +1,491 @@
+/**
+ * Course test attempts: start (or resume), autosave answers, submit, grade, review.
+ *
+ * Contracts:
+ * - Only an enrolled person may start; one open attempt per person and course, which resumes
+ *   rather than re-draws; attemptsAllowed and waitHours from the course definition apply,
+ *   and a passed test is not retaken.
+ * - Items are drawn on the server; the runner view carries no answers and no seeds.
+ * - Answers are refused once the attempt is submitted or past its deadline (plus
+ *   LATE_GRACE_MS for a request already in flight). An attempt found past its deadline is
+ *   closed and graded with the answers saved in time.
+ * - Submitting twice changes nothing; grading happens here only.
+ * - Every function that takes a person's id answers only for that person's attempts: another
+ *   person's attempt is "not found".
+ * - `now` is a parameter so that tests can move the clock (deadlines, waiting time).
+ */
+import type { Selectable } from 'kysely';
+import { getCourse, type Course } from '$lib/content';
+import { lessonForGenerator } from '$lib/practice/course-lessons';
+import { randomSeed } from '$lib/practice/random';
+import {
+	answerSchema,
+	drawTest,
+	gradeItem,
+	reviewItem,
+	runnerItem,
+	type DrawnItem,
+	type ItemAnswer,
+	type ItemGrade,
+	type ReviewItem,
+	type RunnerItem
+} from '$lib/practice/test-items';
+import { recordAudit } from './audit';
+import { db as defaultDb, inTransaction, type DB } from './db';
+import type { TestAttemptTable } from './db/schema';
+import { isEnrolled } from './enrolments';
+import { fieldErrors } from './form';
+import { questionsFor } from './question-bank';
+
+/** A save or submit that left the browser just before the deadline is still accepted. */
+export const LATE_GRACE_MS = 5_000;
+
+const HOUR_MS = 3_600_000;
+
+interface Options {
+	db?: DB;
+	now?: Date;
+}
+
+type Row = Selectable<TestAttemptTable>;
+type Answers = Record<string, ItemAnswer>;
+
+export type Refusal = { ok: false; status: 400 | 403 | 404 | 409; reason: string; message: string; errors?: Record<string, string>; summary?: AttemptSummary; availableAt?: string };
+
+export interface TestRules {
+	itemCount: number;
+	fixedItems: number;
+	computedItems: number;
+	timeLimitMinutes: number | null;
+	attemptsAllowed: number;
+	waitHours: number;
+	passMark: number;
+}
+
+export interface AttemptSummary {
+	id: string;
+	courseSlug: string;
+	startedAt: string;
+	deadlineAt: string | null;
+	submittedAt: string | null;
+	closedBy: 'person' | 'time limit' | null;
+	itemCount: number;
+	correctCount: number | null;
+	scorePercent: number | null;
+	passMark: number;
+	passed: boolean | null;
+}
+
+export interface RunnerView {
+	status: 'open';
+	id: string;
+	course: { slug: string; title: string };
+	startedAt: string;
+	deadlineAt: string | null;
+	/** The server's clock, so the browser's timer can allow for its own being off. */
+	serverNow: string;
+	items: RunnerItem[];
+	/** The person's own saved answers, by position. */
+	answers: Answers;
+}
+
+export interface AttemptReview extends AttemptSummary {
+	course: { slug: string; title: string };
+	items: ReviewItem[];
+}
+
+export function rulesOf(course: Course): TestRules {
+	const t = course.test;
+	return {
+		itemCount: t.fixedItems + t.computedItems,
+		fixedItems: t.fixedItems,
+		computedItems: t.computedItems,
+		timeLimitMinutes: t.timeLimitMinutes,
+		attemptsAllowed: t.attemptsAllowed,
+		waitHours: t.waitHours,
+		passMark: course.passMark
+	};
+}
+
+export function summarise(row: Row): AttemptSummary {
+	return {
+		id: row.id,
+		courseSlug: row.course_slug,
+		startedAt: row.started_at,
+		deadlineAt: row.deadline_at,
+		submittedAt: row.submitted_at,
+		closedBy: row.closed_by,
+		itemCount: row.item_count,
+		correctCount: row.correct_count,
+		scorePercent: row.score_percent,
+		passMark: row.pass_mark,
+		passed: row.passed === null ? null : row.passed === 1
+	};
+}
+
+const items = (row: Row): DrawnItem[] => JSON.parse(row.items);
+const answersOf = (row: Row): Answers => JSON.parse(row.answers);
+
+function isPastDeadline(row: Row, now: Date): boolean {
+	return row.deadline_at !== null && now.getTime() > Date.parse(row.deadline_at) + LATE_GRACE_MS;
+}
+
+async function ownAttempt(db: DB, userId: string, attemptId: string): Promise<Row | undefined> {
+	return db.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).where('user_id', '=', userId).executeTakeFirst();
+}
+
+// ---------------------------------------------------------------- grading
+
+/** Grades and closes an open attempt; does nothing to one already closed. Returns the row as it ends up. */
+async function close(db: DB, row: Row, closedBy: 'person' | 'time limit', at: Date, actorId: string | null): Promise<Row> {
+	const drawn = items(row);
+	const answers = answersOf(row);
+	const results: ItemGrade[] = drawn.map((item, i) => gradeItem(item, answers[i]));
+	const correct = results.filter((r) => r.correct).length;
+	const score = drawn.length === 0 ? 0 : (correct * 100) / drawn.length;
+	const submittedAt = closedBy === 'time limit' && row.deadline_at ? row.deadline_at : at.toISOString();
+	const passed = score >= row.pass_mark ? 1 : 0;
+	const update = await db
+		.updateTable('test_attempt')
+		.set({ submitted_at: submittedAt, closed_by: closedBy, correct_count: correct, score_percent: score, passed, results: JSON.stringify(results) })
+		.where('id', '=', row.id)
+		.where('submitted_at', 'is', null)
+		.executeTakeFirst();
+	if (Number(update.numUpdatedRows) > 0) {
+		await recordAudit(
+			{
+				actorId,
+				action: 'test.submit',
+				subjectType: 'test_attempt',
+				subjectId: row.id,
+				detail: { userId: row.user_id, courseSlug: row.course_slug, scorePercent: Math.round(score * 10) / 10, passed: passed === 1, closedBy }
+			},
+			db
+		);
+	}
+	return (await db.selectFrom('test_attempt').selectAll().where('id', '=', row.id).executeTakeFirstOrThrow()) as Row;
+}
+
+/** Closes any of the person's open attempts that ran past their deadline. */
+async function closeExpired(db: DB, userId: string, now: Date, courseSlug?: string): Promise<void> {
+	let query = db.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('submitted_at', 'is', null).where('deadline_at', 'is not', null);
+	if (courseSlug) query = query.where('course_slug', '=', courseSlug);
+	for (const row of await query.execute()) {
+		if (isPastDeadline(row, now)) await close(db, row, 'time limit', now, null);
+	}
+}
+
+// ---------------------------------------------------------------- rules
+
+export interface TestStatus {
+	course: { slug: string; title: string; code: string };
+	rules: TestRules;
+	enrolled: boolean;
+	/** Newest first. */
+	attempts: AttemptSummary[];
+	open: AttemptSummary | null;
+	attemptsUsed: number;
+	attemptsLeft: number;
+	passed: boolean;
+	/** Set while the waiting time after a failed attempt runs. */
+	nextStartAt: string | null;
+	/** Why a new attempt cannot start now (an open one can always be resumed). */
+	blocked: { reason: 'not-enrolled' | 'passed' | 'no-attempts-left' | 'waiting'; message: string } | null;
+}
+
+function evaluate(course: Course, rows: Row[], enrolled: boolean, now: Date): Omit<TestStatus, 'course' | 'rules' | 'enrolled'> {
+	const rules = rulesOf(course);
+	const newestFirst = [...rows].sort((a, b) => b.started_at.localeCompare(a.started_at));
+	const closed = newestFirst.filter((r) => r.submitted_at !== null);
+	const open = newestFirst.find((r) => r.submitted_at === null);
+	const passedRow = closed.find((r) => r.passed === 1);
+	const attemptsLeft = Math.max(0, rules.attemptsAllowed - closed.length);
+	const last = closed[0];
+	const waitEnds = last && last.wait_waived_at === null ? Date.parse(last.submitted_at!) + rules.waitHours * HOUR_MS : 0;
+	const waiting = !passedRow && attemptsLeft > 0 && waitEnds > now.getTime();
+	let blocked: TestStatus['blocked'] = null;
+	if (!enrolled) blocked = { reason: 'not-enrolled', message: 'You need a place on this course to take its test.' };
+	else if (passedRow) blocked = { reason: 'passed', message: 'You have passed this test.' };
+	else if (attemptsLeft === 0) blocked = { reason: 'no-attempts-left', message: `All ${rules.attemptsAllowed} attempts are used. Ask your trainer or the registrar what comes next.` };
+	else if (waiting) blocked = { reason: 'waiting', message: `After an attempt, the next may start ${rules.waitHours} hours later. Use the time to go over the lessons and practise.` };
+	return {
+		attempts: newestFirst.map(summarise),
+		open: open ? summarise(open) : null,
+		attemptsUsed: closed.length,
+		attemptsLeft,
+		passed: !!passedRow,
+		nextStartAt: waiting ? new Date(waitEnds).toISOString() : null,
+		blocked
+	};
+}
+
+/** Where a person stands with a course test. Null for an unknown course. */
+export async function testStatus(userId: string, courseSlug: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<TestStatus | null> {
+	const course = getCourse(courseSlug);
+	if (!course) return null;
+	await closeExpired(db, userId, now, courseSlug);
+	const rows = (await db.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('course_slug', '=', courseSlug).execute()) as Row[];
+	const enrolled = await isEnrolled(userId, courseSlug, db);
+	return {
+		course: { slug: course.slug, title: course.title, code: course.code },
+		rules: rulesOf(course),
+		enrolled,
+		...evaluate(course, rows, enrolled, now)
+	};
+}
+
+// ---------------------------------------------------------------- the runner
+
+function runnerView(row: Row, course: Course, now: Date): RunnerView {
+	return {
+		status: 'open',
+		id: row.id,
+		course: { slug: course.slug, title: course.title },
+		startedAt: row.started_at,
+		deadlineAt: row.deadline_at,
+		serverNow: now.toISOString(),
+		items: items(row).map((item, i) => runnerItem(item, i)),
+		answers: answersOf(row)
+	};
+}
+
+function isUniqueViolation(e: unknown): boolean {
+	return e instanceof Error && /UNIQUE constraint failed/.test(e.message);
+}
+
+/**
+ * Starts a test attempt, or resumes the open one. `seed` fixes the draw in tests; otherwise
+ * it comes from the crypto source.
+ */
+export async function startAttempt(
+	userId: string,
+	courseSlug: string,
+	{ db = defaultDb, now = new Date(), seed }: Options & { seed?: number } = {}
+): Promise<{ ok: true; resumed: boolean; attempt: RunnerView } | Refusal> {
+	const course = getCourse(courseSlug);
+	if (!course) return { ok: false, status: 404, reason: 'not-found', message: 'No such course.' };
+	if (!(await isEnrolled(userId, courseSlug, db))) {
+		return { ok: false, status: 403, reason: 'not-enrolled', message: 'You need a place on this course to take its test.' };
+	}
+	const attempt = async (): Promise<{ ok: true; resumed: boolean; attempt: RunnerView } | Refusal> =>
+		inTransaction(db, async (trx) => {
+			await closeExpired(trx, userId, now, courseSlug);
+			const rows = (await trx.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('course_slug', '=', courseSlug).execute()) as Row[];
+			const open = rows.find((r) => r.submitted_at === null);
+			if (open) return { ok: true, resumed: true, attempt: runnerView(open, course, now) };
+			const status = evaluate(course, rows, true, now);
+			if (status.blocked) {
+				return { ok: false, status: 409, reason: status.blocked.reason, message: status.blocked.message, ...(status.nextStartAt ? { availableAt: status.nextStartAt } : {}) };
+			}
+			const drawSeed = seed ?? randomSeed();
+			const drawn = drawTest(
+				{ lessons: course.lessons.map((l) => l.slug), ...course.test },
+				questionsFor(courseSlug),
+				drawSeed,
+				(g) => lessonForGenerator(courseSlug, g)
+			);
+			const limit = course.test.timeLimitMinutes;
+			const row = {
+				id: crypto.randomUUID(),
+				user_id: userId,
+				course_slug: courseSlug,
+				started_at: now.toISOString(),
+				deadline_at: limit === null ? null : new Date(now.getTime() + limit * 60_000).toISOString(),
+				submitted_at: null,
+				closed_by: null,
+				draw_seed: drawSeed,
+				items: JSON.stringify(drawn),
+				answers: '{}',
+				item_count: drawn.length,
+				pass_mark: course.passMark,
+				correct_count: null,
+				score_percent: null,
+				passed: null,
+				results: null,
+				wait_waived_at: null,
+				wait_waived_by: null
+			} satisfies Row;
+			await trx.insertInto('test_attempt').values(row).execute();
+			await recordAudit({ actorId: userId, action: 'test.start', subjectType: 'test_attempt', subjectId: row.id, detail: { courseSlug, attempt: status.attemptsUsed + 1 } }, trx);
+			return { ok: true, resumed: false, attempt: runnerView(row, course, now) };
+		});
+	try {
+		return await attempt();
+	} catch (e) {
+		// Two starts at once: the database let one through; the other resumes it.
+		if (isUniqueViolation(e)) return attempt();
+		throw e;
+	}
+}
+
+/** The runner's view of an open attempt, or its summary once closed. Null when not the person's. */
+export async function getAttempt(
+	userId: string,
+	attemptId: string,
+	{ db = defaultDb, now = new Date() }: Options = {}
+): Promise<RunnerView | { status: 'submitted'; summary: AttemptSummary } | null> {
+	let row = await ownAttempt(db, userId, attemptId);
+	if (!row) return null;
+	if (row.submitted_at === null && isPastDeadline(row, now)) row = await close(db, row, 'time limit', now, null);
+	if (row.submitted_at !== null) return { status: 'submitted', summary: summarise(row) };
+	const course = getCourse(row.course_slug);
+	if (!course) return null;
+	return runnerView(row, course, now);
+}
+
+/** Autosaves one answer. Refused after submission and after the deadline. */
+export async function saveAnswer(
+	userId: string,
+	attemptId: string,
+	position: number,
+	raw: unknown,
+	{ db = defaultDb, now = new Date() }: Options = {}
+): Promise<{ ok: true; savedAt: string } | Refusal> {
+	return inTransaction(db, async (trx) => {
+		const row = await ownAttempt(trx, userId, attemptId);
+		if (!row) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
+		if (row.submitted_at !== null) return { ok: false, status: 409, reason: 'submitted', message: 'This attempt is already submitted; answers can no longer change.' };
+		if (isPastDeadline(row, now)) {
+			const closed = await close(trx, row, 'time limit', now, null);
+			return { ok: false, status: 409, reason: 'time-up', message: 'Time is up: this answer came after the time limit and was not saved.', summary: summarise(closed) };
+		}
+		const drawn = items(row);
+		if (!Number.isInteger(position) || position < 0 || position >= drawn.length) {
+			return { ok: false, status: 404, reason: 'no-such-item', message: 'No item at that position.' };
+		}
+		const parsed = answerSchema(runnerItem(drawn[position], position)).safeParse(raw);
+		if (!parsed.success) return { ok: false, status: 400, reason: 'bad-answer', message: 'The answer does not fit this item.', errors: fieldErrors(parsed.error) };
+		const answers = { ...answersOf(row), [position]: parsed.data };
+		await trx.updateTable('test_attempt').set({ answers: JSON.stringify(answers) }).where('id', '=', row.id).where('submitted_at', 'is', null).execute();
+		return { ok: true, savedAt: now.toISOString() };
+	});
+}
+
+/** Submits and grades. A second submit, or one after the deadline, is refused and changes nothing. */
+export async function submitAttempt(
+	userId: string,
+	attemptId: string,
+	{ db = defaultDb, now = new Date() }: Options = {}
+): Promise<{ ok: true; summary: AttemptSummary } | Refusal> {
+	return inTransaction(db, async (trx) => {
+		const row = await ownAttempt(trx, userId, attemptId);
+		if (!row) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
+		if (row.submitted_at !== null) {
+			return { ok: false, status: 409, reason: 'already-submitted', message: 'This attempt was already submitted.', summary: summarise(row) };
+		}
+		if (isPastDeadline(row, now)) {
+			const closed = await close(trx, row, 'time limit', now, null);
+			return { ok: false, status: 409, reason: 'time-up', message: 'Time ran out before this submit: the attempt was graded with the answers saved in time.', summary: summarise(closed) };
+		}
+		return { ok: true, summary: summarise(await close(trx, row, 'person', now, userId)) };
+	});
+}
+
+// ---------------------------------------------------------------- review
+
+function review(row: Row): AttemptReview | null {
+	const course = getCourse(row.course_slug);
+	if (!course || row.submitted_at === null || row.results === null) return null;
+	const drawn = items(row);
+	const answers = answersOf(row);
+	const results: ItemGrade[] = JSON.parse(row.results);
+	return {
+		...summarise(row),
+		course: { slug: course.slug, title: course.title },
+		items: drawn.map((item, i) => reviewItem(item, i, answers[i], results[i]))
+	};
+}
+
+/** The person's own graded attempt with answers and worked solutions; null before submission or when not theirs. */
+export async function reviewAttempt(userId: string, attemptId: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<AttemptReview | null> {
+	let row = await ownAttempt(db, userId, attemptId);
+	if (!row) return null;
+	if (row.submitted_at === null && isPastDeadline(row, now)) row = await close(db, row, 'time limit', now, null);
+	return review(row);
+}
+
+/** Any graded attempt with the person it belongs to, for trainers and registrars. */
+export async function reviewAttemptForStaff(attemptId: string, { db = defaultDb }: Options = {}) {
+	const row = await db.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).executeTakeFirst();
+	if (!row) return null;
+	const person = await db.selectFrom('User').select(['id', 'name', 'email']).where('id', '=', row.user_id).executeTakeFirstOrThrow();
+	return { person, summary: summarise(row), review: review(row) };
+}
+
+/** Whether the person has passed the course test: what the certificate rules ask. */
+export async function hasPassedTest(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
+	const row = await db
+		.selectFrom('test_attempt')
+		.select('id')
+		.where('user_id', '=', userId)
+		.where('course_slug', '=', courseSlug)
+		.where('passed', '=', 1)
+		.executeTakeFirst();
+	return !!row;
+}
+
+// ---------------------------------------------------------------- trainers and registrars
+
+export interface StaffAttemptRow extends AttemptSummary {
+	person: { id: string; name: string | null; email: string };
+	/** The waiting time after this failed attempt can be lifted by staff now. */
+	canWaiveWait: boolean;
+	waitWaived: boolean;
+}
+
+/** Attempts per trainee, newest first, optionally for one course. */
+export async function listAttemptsForStaff({ courseSlug, db = defaultDb, now = new Date() }: Options & { courseSlug?: string } = {}): Promise<StaffAttemptRow[]> {
+	let query = db
+		.selectFrom('test_attempt')
+		.innerJoin('User', 'User.id', 'test_attempt.user_id')
+		.selectAll('test_attempt')
+		.select(['User.name as person_name', 'User.email as person_email'])
+		.orderBy('test_attempt.started_at', 'desc')
+		.limit(500);
+	if (courseSlug) query = query.where('test_attempt.course_slug', '=', courseSlug);
+	const rows = await query.execute();
+	const latestClosed = new Map<string, string>();
+	const hasOpen = new Set<string>();
+	for (const r of rows) {
+		const key = `${r.user_id}\u0000${r.course_slug}`;
+		if (r.submitted_at === null) hasOpen.add(key);
+		else if (!latestClosed.has(key)) latestClosed.set(key, r.id);
+	}
+	return rows.map((r) => {
+		const key = `${r.user_id}\u0000${r.course_slug}`;
+		const course = getCourse(r.course_slug);
+		const all = rows.filter((x) => x.user_id === r.user_id && x.course_slug === r.course_slug) as Row[];
+		const status = course ? evaluate(course, all, true, now) : null;
+		const canWaiveWait = latestClosed.get(key) === r.id && !hasOpen.has(key) && status?.blocked?.reason === 'waiting';
+		return {
+			...summarise(r as Row),
+			person: { id: r.user_id, name: r.person_name, email: r.person_email },
+			canWaiveWait,
+			waitWaived: r.wait_waived_at !== null
+		};
+	});
+}
+
+/**
+ * Lets a trainee retake now instead of after the waiting time, recorded in the audit log.
+ * Only for the latest attempt of a trainee who is waiting; the attempts allowed still apply.
+ */
+export async function waiveWait(actorId: string, attemptId: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<{ ok: true } | Refusal> {
+	return inTransaction(db, async (trx) => {
+		const row = await trx.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).executeTakeFirst();
+		if (!row) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
+		const course = getCourse(row.course_slug);
+		const all = (await trx.selectFrom('test_attempt').selectAll().where('user_id', '=', row.user_id).where('course_slug', '=', row.course_slug).execute()) as Row[];
+		const latest = all.filter((r) => r.submitted_at !== null).sort((a, b) => b.submitted_at!.localeCompare(a.submitted_at!))[0];
+		const status = course ? evaluate(course, all, true, now) : null;
+		if (!latest || latest.id !== row.id || status?.blocked?.reason !== 'waiting') {
+			return { ok: false, status: 409, reason: 'not-waiting', message: 'This trainee is not waiting to retake this test.' };
+		}
+		await trx.updateTable('test_attempt').set({ wait_waived_at: now.toISOString(), wait_waived_by: actorId }).where('id', '=', row.id).execute();
+		await recordAudit(
+			{ actorId, action: 'test.wait-waived', subjectType: 'test_attempt', subjectId: row.id, detail: { userId: row.user_id, courseSlug: row.course_slug } },
+			trx
+		);
+		return { ok: true };
+	});
+}
