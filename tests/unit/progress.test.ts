@@ -3,7 +3,7 @@ import { getCourse, getLesson } from '$lib/content';
 import { enrol } from '$lib/server/enrolments';
 import {
 	getCourseProgress,
-	lessonAccess,
+	readingState,
 	listEnrolledProgress,
 	setLessonDone,
 	summariseProgress
@@ -96,11 +96,13 @@ describe('progress in the database', () => {
 		const closed = getLesson(COURSE, 'wet-out')!;
 		expect(preview.preview).toBe(true);
 		expect(closed.preview).toBe(false);
-		expect(await lessonAccess(null, preview, db)).toBe('open');
-		expect(await lessonAccess(null, closed, db)).toBe('sign-in');
-		expect(await lessonAccess(userId, closed, db)).toBe('not-enrolled');
+		expect(await readingState(null, preview, db)).toBe('preview');
+		expect(await readingState(userId, preview, db)).toBe('preview');
+		expect(await readingState(null, closed, db)).toBe('sign-in');
+		expect(await readingState(userId, closed, db)).toBe('not-enrolled');
 		await enrol(null, userId, COURSE, 'registrar', db);
-		expect(await lessonAccess(userId, closed, db)).toBe('open');
+		expect(await readingState(userId, closed, db)).toBe('enrolled');
+		expect(await readingState(userId, preview, db)).toBe('enrolled');
 	});
 
 	it('forgets progress when the person is deleted', async () => {

@@ -144,11 +144,14 @@ export async function setLessonDone(
 	});
 }
 
-/** Who may read a lesson: anyone for a preview, otherwise an enrolled person. */
-export type LessonAccess = 'open' | 'sign-in' | 'not-enrolled';
+/**
+ * What a person may do with a lesson: `enrolled` reads and records progress, `preview` reads
+ * only (a preview lesson for someone not enrolled); `sign-in` and `not-enrolled` may not read.
+ */
+export type ReadingState = 'enrolled' | 'preview' | 'sign-in' | 'not-enrolled';
 
-export async function lessonAccess(userId: string | null, lesson: Lesson, db: DB = defaultDb): Promise<LessonAccess> {
-	if (lesson.preview) return 'open';
-	if (!userId) return 'sign-in';
-	return (await isEnrolled(userId, lesson.courseSlug, db)) ? 'open' : 'not-enrolled';
+export async function readingState(userId: string | null, lesson: Lesson, db: DB = defaultDb): Promise<ReadingState> {
+	if (userId && (await isEnrolled(userId, lesson.courseSlug, db))) return 'enrolled';
+	if (lesson.preview) return 'preview';
+	return userId ? 'not-enrolled' : 'sign-in';
 }
