@@ -1,6 +1,7 @@
 import { requireUser } from '$lib/server/authz';
 import { countPeople } from '$lib/server/users';
 import { listMembers } from '$lib/server/companies';
+import { listEnrolledProgress } from '$lib/server/progress';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -10,6 +11,7 @@ export const load: PageServerLoad = async (event) => {
 		adminOf.map(async (c) => ({ ...c, memberCount: (await listMembers(c.id)).length }))
 	);
 	return {
+		training: await listEnrolledProgress(user.id),
 		companies,
 		peopleCount: user.roles.includes('registrar') ? await countPeople() : null
 	};

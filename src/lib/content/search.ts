@@ -1,0 +1,69 @@
+import MiniSearch, { type Options, type SearchResult } from 'minisearch';
+import { headings, plainText, splitFrontMatter } from './text';
+
+/**
+ * Lesson search. The index is built once at build time (a prerendered JSON file) and loaded
+ * in the browser, which searches it with the same options.
+ */
+
+export interface LessonDocument {
+	/** The lesson's URL, `/courses/<course>/<lesson>`. */
+	id: string;
+	title: string;
+	courseTitle: string;
+	objectives: string;
+	headings: string;
+	text: string;
+}
+
+export interface LessonHit {
+	href: string;
+	title: string;
+	courseTitle: string;
+	summary: string;
+}
+
+export const searchOptions: Options<LessonDocument> = {
+	fields: ['title', 'objectives', 'headings', 'text'],
+	storeFields: ['title', 'courseTitle', 'summary'],
+	extractField: (doc, field) => (field === 'summary' ? doc.objectives.split('\n')[0] : (doc as unknown as Record<string, string>)[field]),
+	searchOptions: { prefix: true, fuzzy: 0.2, combineWith: 'AND', boost: { title: 4, headings: 2, objectives: 1.5 } }
+};
+
+export interface LessonSource {
+	href: string;
+	title: string;
+	courseTitle: string;
+	objectives: string[];
+	raw: string;
+}
+
+export function lessonDocument(source: LessonSource): LessonDocument {
+	return {
+		id: source.href,
+		title: source.title,
+		courseTitle: source.courseTitle,
+		objectives: source.objectives.join('\n'),
+		headings: headings(splitFrontMatter(source.raw).body).join('\n'),
+		text: plainText(source.raw)
+	};
+}
+
+/** The serialised index (MiniSearch's own JSON form). */
+export function buildSearchIndex(sources: LessonSource[]): string {
+	const index = new MiniSearch<LessonDocument>(searchOptions);
+	index.addAll(sources.map(lessonDocument));
+	return JSON.stringify(index);
+}
+
+export function loadSearchIndex(json: string): MiniSearch<LessonDocument> {
+	return MiniSearch.loadJSON<LessonDocument>(json, searchOptions);
+}
+
+export function searchLessons(index: MiniSearch<LessonDocument>, query: string, limit = 8): LessonHit[] {
+	if (!query.trim()) return [];
+	return index
+		.search(query)
+		.slice(0, limit)
+		.map((r: SearchResult) => ({ href: r.id, title: r.title, courseTitle: r.courseTitle, summary: r.summary }));
+}

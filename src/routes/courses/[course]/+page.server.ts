@@ -1,0 +1,23 @@
+import { error } from '@sveltejs/kit';
+import { courses, getCourse } from '$lib/content';
+import { isEnrolled } from '$lib/server/enrolments';
+import { getCourseProgress } from '$lib/server/progress';
+import type { PageServerLoad } from './$types';
+
+/** A course's outline, what its certificate proves, price and validity; progress when enrolled. */
+export const load: PageServerLoad = async ({ params, locals }) => {
+	const course = getCourse(params.course);
+	if (!course) error(404, 'No such course');
+	const enrolled = locals.user ? await isEnrolled(locals.user.id, course.slug) : false;
+	const { lessons, prerequisites, ...meta } = course;
+	return {
+		course: {
+			...meta,
+			prerequisites: prerequisites.map((slug) => ({ slug, title: courses.find((c) => c.slug === slug)?.title ?? slug })),
+			minutes: lessons.reduce((sum, l) => sum + l.minutes, 0)
+		},
+		outline: lessons.map(({ slug, title, order, minutes, preview, href }) => ({ slug, title, order, minutes, preview, href })),
+		enrolled,
+		progress: enrolled ? await getCourseProgress(locals.user!.id, course) : null
+	};
+};

@@ -1,0 +1,33 @@
+import { error } from '@sveltejs/kit';
+import { getCourse, getLesson } from '$lib/content';
+import { requireUser } from '$lib/server/authz';
+import { getCourseProgress, readingState } from '$lib/server/progress';
+import type { PageServerLoad } from './$types';
+
+/**
+ * A lesson with its course outline. Preview lessons are open to everyone; the rest need an
+ * enrolment: a visitor is sent to sign in, a signed-in person without one gets a 403.
+ */
+export const load: PageServerLoad = async (event) => {
+	const { params, locals } = event;
+	const course = getCourse(params.course);
+	const lesson = getLesson(params.course, params.lesson);
+	if (!course || !lesson) error(404, 'No such lesson');
+
+	const state = await readingState(locals.user?.id ?? null, lesson);
+	if (state === 'sign-in') requireUser(event);
+	if (state === 'not-enrolled') error(403, `This lesson is for trainees enrolled in ${course.title}.`);
+
+	const outline = course.lessons.map(({ slug, title, order, minutes, preview, href }) => ({ slug, title, order, minutes, preview, href }));
+	const at = outline.findIndex((l) => l.slug === lesson.slug);
+	const enrolled = state === 'enrolled';
+	return {
+		course: { slug: course.slug, title: course.title, code: course.code },
+		lesson: { slug: lesson.slug, title: lesson.title, order: lesson.order, minutes: lesson.minutes, preview: lesson.preview, objectives: lesson.objectives },
+		outline,
+		previous: outline[at - 1] ?? null,
+		next: outline[at + 1] ?? null,
+		enrolled,
+		doneLessons: enrolled ? (await getCourseProgress(locals.user!.id, course)).doneLessons : []
+	};
+};
