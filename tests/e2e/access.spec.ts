@@ -23,7 +23,18 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/api/v1/health', 'ok'],
 	['/api/v1/me', { anonymous: 401, other: 'ok' }],
 	['/no-such-page', 404],
-	['/api/v1/no-such-route', 404]
+	['/api/v1/no-such-route', 404],
+	['/courses', 'ok'],
+	['/courses/search-index.json', 'ok'],
+	['/courses/point-repair-installer', 'ok'],
+	['/courses/no-such-course', 404],
+	['/courses/point-repair-installer/the-job-and-defects', 'ok'],
+	['/courses/point-repair-installer/wet-out', { anonymous: 'in', trainee: 'ok', other: 403 }],
+	['/courses/transition-patches/sizing-the-taper', { anonymous: 'in', other: 403 }],
+	['/courses/point-repair-installer/no-such-lesson', 404],
+	['/api/v1/progress', { anonymous: 401, other: 'ok' }],
+	['/api/v1/progress/point-repair-installer', { anonymous: 401, trainee: 'ok', other: 403 }],
+	['/api/v1/progress/no-such-course', { anonymous: 401, other: 404 }]
 ];
 
 function expected(rule: (typeof table)[number][1], identity: Identity): Expect {
