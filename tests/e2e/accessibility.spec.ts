@@ -38,5 +38,6 @@ test('a refused form announces its errors and ties each to its field', async ({ 
 	const name = page.getByLabel('Your name');
 	await expect(name).toHaveAttribute('aria-invalid', 'true');
 	await expect(name).toHaveAccessibleDescription('Enter your name.');
+	await expect(name).toBeFocused();
 	await expectAccessible(page, '/sign-up');
 });

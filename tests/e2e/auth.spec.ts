@@ -59,6 +59,7 @@ test.describe('signing up and in', () => {
 		const email = 'luca@brindlewick.test';
 		await page.goto('/sign-in');
 		await page.getByRole('link', { name: 'Forgot your password?' }).click();
+		await expect(page.getByRole('heading', { name: 'Reset your password' })).toBeVisible();
 		await page.getByLabel('E-mail address').fill(email);
 		await page.getByRole('button', { name: 'Send reset link' }).click();
 		await expect(page.getByRole('status')).toContainText('reset link is on its way');
