@@ -108,3 +108,33 @@ test('a role change with a forged person id is refused with a clear message', as
 	expect(body.status).toBe(400);
 	await registrar.dispose();
 });
+
+test('the registrar enrols a person in a course, recorded in the audit log', async ({ page }) => {
+	await page.context().addCookies(await (async () => {
+		const registrar = await newRequest.newContext({ baseURL });
+		await signInRequest(registrar, who.registrar);
+		const cookies = (await registrar.storageState()).cookies;
+		await registrar.dispose();
+		return cookies;
+	})());
+	// A newcomer who signed up on their own is enrolled by the registrar.
+	const email = `enrol-${Date.now()}@example.test`;
+	const newcomer = await newRequest.newContext({ baseURL });
+	const signUp = await newcomer.post('/sign-up', {
+		form: { name: 'Enrol Me', email, password: 'a long enough password' },
+		headers: { origin: baseURL, accept: 'text/html' },
+		maxRedirects: 0
+	});
+	expect(signUp.status()).toBe(302);
+	await newcomer.dispose();
+
+	await page.goto(`/registrar/people?q=${encodeURIComponent(email)}`);
+	const person = page.getByRole('listitem').filter({ hasText: email });
+	await expect(person).toContainText('Enrolled: no course');
+	await person.getByLabel(`Course to enrol ${email} in`).selectOption('transition-patches');
+	await person.getByRole('button', { name: `Enrol ${email}` }).click();
+	await expect(page.getByRole('status')).toContainText('Enrolled.');
+	await expect(person).toContainText('Enrolled: TP-200');
+	await page.goto('/registrar/audit');
+	await expect(page.getByRole('row').filter({ hasText: 'enrolment.create' }).first()).toContainText('transition-patches');
+});

@@ -1,7 +1,13 @@
 import { z } from 'zod';
 import { platformRoles } from '$lib/roles';
+import { courses } from '$lib/content';
 
 export const roleChangeSchema = z.object({
 	userId: z.uuid('Choose a person from the list.'),
 	role: z.enum(platformRoles, { error: 'Choose trainer, inspector or registrar.' })
+});
+
+export const enrolSchema = z.object({
+	userId: z.uuid('Choose a person from the list.'),
+	course: z.string().refine((slug) => courses.some((c) => c.slug === slug), 'Choose a course from the list.')
 });

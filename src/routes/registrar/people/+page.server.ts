@@ -1,7 +1,9 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/authz';
 import { failWith, parseForm } from '$lib/server/form';
-import { roleChangeSchema } from '$lib/server/role-forms';
+import { enrolSchema, roleChangeSchema } from '$lib/server/role-forms';
+import { enrol, listEnrolments } from '$lib/server/enrolments';
+import { courses } from '$lib/content';
 import { grantRole, loadIdentity, revokeRole } from '$lib/server/roles';
 import { searchUsers } from '$lib/server/users';
 import type { Actions, PageServerLoad } from './$types';
@@ -10,8 +12,14 @@ export const load: PageServerLoad = async (event) => {
 	requireRole(event, 'registrar');
 	const q = (event.url.searchParams.get('q') ?? '').slice(0, 100);
 	const found = await searchUsers(q);
-	const people = await Promise.all(found.map(async (p) => ({ ...p, roles: (await loadIdentity(p.id))?.roles ?? [] })));
-	return { q, people };
+	const people = await Promise.all(
+		found.map(async (p) => ({
+			...p,
+			roles: (await loadIdentity(p.id))?.roles ?? [],
+			enrolments: (await listEnrolments(p.id)).map((e) => e.course_slug)
+		}))
+	);
+	return { q, people, courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })) };
 };
 
 async function change(event: Parameters<Actions[string]>[0], kind: 'grant' | 'revoke') {
@@ -28,6 +36,14 @@ async function change(event: Parameters<Actions[string]>[0], kind: 'grant' | 're
 }
 
 export const actions: Actions = {
+	enrol: async (event) => {
+		const me = requireRole(event, 'registrar');
+		const parsed = await parseForm(event.request, enrolSchema);
+		if (!parsed.ok) return parsed.failure;
+		if (!(await loadIdentity(parsed.data.userId))) error(404, 'No such person.');
+		await enrol(me.id, parsed.data.userId, parsed.data.course, 'registrar');
+		return { done: 'Enrolled.' };
+	},
 	grant: (event) => change(event, 'grant'),
 	revoke: (event) => change(event, 'revoke')
 };
