@@ -11,6 +11,7 @@ export interface LessonDocument {
 	id: string;
 	title: string;
 	courseTitle: string;
+	preview: boolean;
 	objectives: string;
 	headings: string;
 	text: string;
@@ -21,11 +22,12 @@ export interface LessonHit {
 	title: string;
 	courseTitle: string;
 	summary: string;
+	preview: boolean;
 }
 
 export const searchOptions: Options<LessonDocument> = {
 	fields: ['title', 'objectives', 'headings', 'text'],
-	storeFields: ['title', 'courseTitle', 'summary'],
+	storeFields: ['title', 'courseTitle', 'summary', 'preview'],
 	extractField: (doc, field) => (field === 'summary' ? doc.objectives.split('\n')[0] : (doc as unknown as Record<string, string>)[field]),
 	searchOptions: { prefix: true, fuzzy: 0.2, combineWith: 'AND', boost: { title: 4, headings: 2, objectives: 1.5 } }
 };
@@ -34,6 +36,7 @@ export interface LessonSource {
 	href: string;
 	title: string;
 	courseTitle: string;
+	preview: boolean;
 	objectives: string[];
 	raw: string;
 }
@@ -43,6 +46,7 @@ export function lessonDocument(source: LessonSource): LessonDocument {
 		id: source.href,
 		title: source.title,
 		courseTitle: source.courseTitle,
+		preview: source.preview,
 		objectives: source.objectives.join('\n'),
 		headings: headings(splitFrontMatter(source.raw).body).join('\n'),
 		text: plainText(source.raw)
@@ -65,5 +69,5 @@ export function searchLessons(index: MiniSearch<LessonDocument>, query: string, 
 	return index
 		.search(query)
 		.slice(0, limit)
-		.map((r: SearchResult) => ({ href: r.id, title: r.title, courseTitle: r.courseTitle, summary: r.summary }));
+		.map((r: SearchResult) => ({ href: r.id, title: r.title, courseTitle: r.courseTitle, summary: r.summary, preview: r.preview === true }));
 }

@@ -13,6 +13,7 @@ export const GET: RequestHandler = () => {
 			href: lesson.href,
 			title: lesson.title,
 			courseTitle: course.title,
+			preview: lesson.preview,
 			objectives: lesson.objectives,
 			raw: raw[`/content/courses/${course.slug}/lessons/${lesson.slug}.md`] ?? ''
 		}))
