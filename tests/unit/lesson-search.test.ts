@@ -1,20 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { courses } from '$lib/content';
-import { buildSearchIndex, loadSearchIndex, searchLessons } from '$lib/content/search';
+import { buildSearchIndex, lessonSources, loadSearchIndex, searchLessons } from '$lib/content/search';
 import { formatMoney } from '$lib/money';
 
 const raw = import.meta.glob<string>('/content/courses/*/lessons/*.md', { query: '?raw', import: 'default', eager: true });
 
-const sources = courses.flatMap((course) =>
-	course.lessons.map((lesson) => ({
-		href: lesson.href,
-		title: lesson.title,
-		courseTitle: course.title,
-		preview: lesson.preview,
-		objectives: lesson.objectives,
-		raw: raw[`/content/courses/${course.slug}/lessons/${lesson.slug}.md`]
-	}))
-);
+const sources = lessonSources(courses, raw);
 
 describe('lesson search', () => {
 	const index = loadSearchIndex(buildSearchIndex(sources));

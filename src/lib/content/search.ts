@@ -1,4 +1,5 @@
 import MiniSearch, { type Options, type SearchResult } from 'minisearch';
+import type { Course } from './index';
 import { headings, plainText, splitFrontMatter } from './text';
 
 /**
@@ -51,6 +52,24 @@ export function lessonDocument(source: LessonSource): LessonDocument {
 		headings: headings(splitFrontMatter(source.raw).body).join('\n'),
 		text: plainText(source.raw)
 	};
+}
+
+/**
+ * One source per lesson, in catalogue order. `raw` holds the lesson files keyed by path
+ * (`/content/courses/<course>/lessons/<lesson>.md`), as a raw `import.meta.glob` gives them.
+ * The caller globs, so no lesson text reaches a browser bundle through this module.
+ */
+export function lessonSources(courses: Course[], raw: Record<string, string>): LessonSource[] {
+	return courses.flatMap((course) =>
+		course.lessons.map((lesson) => ({
+			href: lesson.href,
+			title: lesson.title,
+			courseTitle: course.title,
+			preview: lesson.preview,
+			objectives: lesson.objectives,
+			raw: raw[`/content/courses/${course.slug}/lessons/${lesson.slug}.md`] ?? ''
+		}))
+	);
 }
 
 /** The serialised index (MiniSearch's own JSON form). */
