@@ -6,6 +6,7 @@
  */
 import { answerCalculation } from '../src/lib/calc/api.ts';
 import { calculators, defaultInputs, runCalculation } from '../src/lib/calc/index.ts';
+import { checkAnswer, expectedAmount, generateProblem, listGenerators, type Problem } from '../src/lib/practice/index.ts';
 import { bench, printSection, type BenchResult } from './bench-lib.ts';
 
 const PER_CALCULATOR = 20_000;
@@ -37,9 +38,41 @@ function apiAnswers(): BenchResult[] {
 	];
 }
 
+const PER_GENERATOR = 5_000;
+
+/** A wrong answer makes the grader look for the usual mistake too: the slower path. */
+function wrongAnswer(p: Problem) {
+	return p.kind === 'choice' ? { choice: p.choices![0].value } : { value: 1, unit: p.unit };
+}
+
+/** Each generator: a problem made from seed i and graded (right, then wrong with the mistake search). */
+function problems(): BenchResult[] {
+	const ids = listGenerators().map((g) => g.id);
+	const rows = ids.map((id) =>
+		bench(id, (i) => {
+			const p = generateProblem(id, i);
+			return checkAnswer(p, wrongAnswer(p));
+		}, PER_GENERATOR)
+	);
+	rows.push(
+		bench('whole set, right answers', (i) => {
+			const p = generateProblem(ids[i % ids.length], i);
+			if (p.kind === 'choice') return checkAnswer(p, { choice: p.choices![1].value });
+			const e = expectedAmount(p);
+			return checkAnswer(p, { value: e.value, unit: e.unit });
+		}, PER_GENERATOR * ids.length),
+		bench('whole set, wrong answers', (i) => {
+			const p = generateProblem(ids[i % ids.length], i);
+			return checkAnswer(p, wrongAnswer(p));
+		}, PER_GENERATOR * ids.length)
+	);
+	return rows;
+}
+
 const sections: [string, () => BenchResult[]][] = [
 	['Calculations per second (validate + compute + worked steps)', calculations],
-	['Calculation API answers per second (no network)', apiAnswers]
+	['Calculation API answers per second (no network)', apiAnswers],
+	['Practice problems generated and graded per second', problems]
 ];
 
 for (const [title, run] of sections) printSection(title, run());

@@ -9,7 +9,7 @@ export function formatWhen(iso: string): string {
 	return `${d.getUTCDate()} ${MONTHS[d.getUTCMonth()]} ${d.getUTCFullYear()}, ${hh}:${mm} UTC`;
 }
 
-/** A score as printed: whole percent unless a fraction matters ("87.5 %"). */
+/** A score as printed, never broken from its sign: whole percent unless a fraction matters ("87.5 %"). */
 export function formatScore(percent: number): string {
-	return `${Number(percent.toFixed(1))} %`;
+	return `${Number(percent.toFixed(1))}\u00a0%`;
 }
