@@ -33,6 +33,11 @@ function collectConsoleErrors(page: Page): string[] {
 	return errors;
 }
 
+async function expectNoSidewaysScroll(page: Page, label: string) {
+	const widths = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
+	expect(widths.scroll, `${label} scrolls sideways`).toBeLessThanOrEqual(widths.client);
+}
+
 async function lessonsDone(page: Page, name: string): Promise<number> {
 	return Number(await page.getByRole('progressbar', { name: `${name}: lessons done` }).first().getAttribute('aria-valuenow'));
 }
@@ -171,18 +176,23 @@ test('a lesson with a diagram and a caution fits a 360 px phone without sideways
 	await expect(page.locator('.prose-lesson figure svg').first()).toBeVisible();
 	await expect(page.locator('.prose-lesson aside[role="note"]').first()).toBeVisible();
 	await expect(page.getByRole('button', { name: 'Mark as done' })).toBeEnabled();
-	const widths = await page.evaluate(() => ({ scroll: document.documentElement.scrollWidth, client: document.documentElement.clientWidth }));
-	expect(widths.scroll).toBeLessThanOrEqual(widths.client);
+	await expectNoSidewaysScroll(page, 'wet-out');
 	fs.mkdirSync(screens, { recursive: true });
 	await page.screenshot({ path: `${screens}/lesson-wet-out-360.png`, fullPage: true });
 
 	// The outline drawer opens on a phone.
 	await page.locator('summary', { hasText: 'Course outline' }).click();
 	await expect(page.getByRole('link', { name: /Packer preparation/ }).first()).toBeVisible();
+
+	for (const path of ['/courses', COURSE, '/courses/transition-patches', '/dashboard']) {
+		await page.goto(path);
+		await expectNoSidewaysScroll(page, path);
+	}
 });
 
-test('every lesson of every course renders without console errors', async ({ page }) => {
+test('every lesson of every course renders at phone width without console errors or sideways scrolling', async ({ page }) => {
 	test.setTimeout(180_000);
+	await page.setViewportSize({ width: 360, height: 800 });
 	const errors = collectConsoleErrors(page);
 	await signInWithPassword(page, everyCourseTrainee);
 	const lessons = allLessons();
@@ -194,5 +204,6 @@ test('every lesson of every course renders without console errors', async ({ pag
 		await expect(page.getByRole('button', { name: 'Mark as done' }), lesson.href).toBeEnabled();
 		await expect(page.locator('.prose-lesson h2', { hasText: 'Sources' }), lesson.href).toBeVisible();
 		expect(errors, lesson.href).toEqual([]);
+		await expectNoSidewaysScroll(page, lesson.href);
 	}
 });
