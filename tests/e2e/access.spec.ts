@@ -29,12 +29,27 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/courses/point-repair-installer', 'ok'],
 	['/courses/no-such-course', 404],
 	['/courses/point-repair-installer/the-job-and-defects', 'ok'],
-	['/courses/point-repair-installer/wet-out', { anonymous: 'in', trainee: 'ok', other: 403 }],
-	['/courses/transition-patches/sizing-the-taper', { anonymous: 'in', other: 403 }],
+	['/courses/point-repair-installer/wet-out', { anonymous: 'in', trainee: 'ok', trainer: 'ok', registrar: 'ok', other: 403 }],
+	['/courses/transition-patches/sizing-the-taper', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
 	['/courses/point-repair-installer/no-such-lesson', 404],
 	['/api/v1/progress', { anonymous: 401, other: 'ok' }],
 	['/api/v1/progress/point-repair-installer', { anonymous: 401, trainee: 'ok', other: 403 }],
-	['/api/v1/progress/no-such-course', { anonymous: 401, other: 404 }]
+	['/api/v1/progress/no-such-course', { anonymous: 401, other: 404 }],
+	['/courses/point-repair-installer/practice', 'ok'],
+	['/courses/no-such-course/practice', 404],
+	['/courses/point-repair-installer/test', { anonymous: 'in', other: 'ok' }],
+	['/courses/no-such-course/test', 404],
+	['/courses/point-repair-installer/test/no-such-attempt', { anonymous: 'in', other: 404 }],
+	['/api/v1/practice', 'ok'],
+	['/api/v1/practice/resin-quantity?seed=1', 'ok'],
+	['/api/v1/practice/no-such-generator?seed=1', 404],
+	['/api/v1/courses/point-repair-installer/attempts', { anonymous: 401, other: 'ok' }],
+	['/api/v1/courses/no-such-course/attempts', { anonymous: 401, other: 404 }],
+	['/api/v1/attempts/no-such-attempt', { anonymous: 401, other: 404 }],
+	['/api/v1/attempts/no-such-attempt/result', { anonymous: 401, other: 404 }],
+	['/trainer/attempts', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
+	['/trainer/attempts/items?course=point-repair-installer', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
+	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }]
 ];
 
 function expected(rule: (typeof table)[number][1], identity: Identity): Expect {

@@ -1,0 +1,201 @@
+import Database from 'better-sqlite3';
+import { expect, request as newRequest, test, type Page } from '@playwright/test';
+import { expectedAmount, type Problem } from '../../src/lib/practice/index';
+import type { DrawnItem, ItemAnswer } from '../../src/lib/practice/test-items';
+import { rightAnswer, wrongAnswer } from '../helpers/answer-key';
+import { baseURL, signInRequest, who } from './support';
+
+/**
+ * A trainee practises, takes the packer-pressure-safety test, fails, waits, passes; a trainer
+ * sees the attempts and the item statistics.
+ *
+ * The wait: the course makes a trainee wait 24 hours after a failed attempt. Rather than move
+ * the server's clock, a trainer uses "Allow a retake now", which the product offers for real
+ * and records in the audit log. (Waiting the full time is covered by the unit tests, which
+ * pass the clock in.)
+ *
+ * Sign-in goes through the sign-in form's endpoint (page.request shares the browser's cookies);
+ * the sign-in page itself has its own tests.
+ *
+ * The answer key: the test reads the draw the server stored in the e2e database, as only the
+ * server can; the browser itself never receives an answer.
+ */
+test.describe.configure({ mode: 'serial' });
+
+const TRAINEE = 'ade@tarnside.test';
+const COURSE = 'packer-pressure-safety';
+const DB_FILE = 'tests/.artifacts/e2e-data/patchwright.sqlite';
+
+function storedDraw(attemptId: string): DrawnItem[] {
+	const db = new Database(DB_FILE, { readonly: true, fileMustExist: true });
+	try {
+		const row = db.prepare('select items from test_attempt where id = ?').get(attemptId) as { items: string } | undefined;
+		if (!row) throw new Error(`No attempt ${attemptId} in ${DB_FILE}`);
+		return JSON.parse(row.items);
+	} finally {
+		db.close();
+	}
+}
+
+/** Answers the item on screen through the controls a person uses, and waits until it is saved. */
+async function answerOnScreen(page: Page, item: DrawnItem, answer: ItemAnswer) {
+	const card = page.locator('[data-position]');
+	if ('choice' in answer) await card.locator('input[type=radio]').nth(answer.choice).check();
+	else if ('choices' in answer) for (const c of answer.choices) await card.locator('input[type=checkbox]').nth(c).check();
+	else if ('order' in answer) {
+		const options = await card.locator('ol li span.flex-1').allTextContents();
+		const now = options.map((_, i) => i);
+		for (let target = 0; target < answer.order.length; target++) {
+			while (now.indexOf(answer.order[target]) > target) {
+				const at = now.indexOf(answer.order[target]);
+				await card.getByRole('button', { name: `Move “${options[answer.order[target]]}” up` }).click();
+				[now[at - 1], now[at]] = [now[at], now[at - 1]];
+			}
+		}
+		if (now.every((v, i) => v === i)) await card.getByRole('button', { name: 'This order is my answer' }).click();
+	} else if ('unit' in answer) {
+		await card.locator('input[type=text]').fill(String(answer.value));
+		await card.getByLabel('Unit').selectOption(answer.unit);
+	} else await card.getByRole('radio', { name: answer.value ? 'True' : 'False' }).check();
+	await expect(page.getByTestId('save-state'), `item ${item.source === 'bank' ? item.id : item.generator}`).toHaveText('Saved');
+}
+
+async function startAttempt(page: Page, n: number): Promise<string> {
+	await page.goto(`/courses/${COURSE}/test`);
+	const started = page.waitForResponse((r) => r.url().endsWith(`/api/v1/courses/${COURSE}/attempts`) && r.request().method() === 'POST');
+	await page.getByRole('button', { name: `Start attempt ${n}` }).click();
+	const body = await (await started).json();
+	await expect(page.locator('[data-position]')).toBeVisible();
+	expect(JSON.stringify(body), 'the runner payload carries no answers').not.toMatch(/"(answer|explanation|seed|inputs|shown)"/);
+	return body.attempt.id;
+}
+
+test('a trainee practises: a wrong answer shows the worked solution, a right one starts a streak', async ({ page }) => {
+	await signInRequest(page.request, TRAINEE);
+	await page.goto(`/courses/${COURSE}/practice`);
+	await expect(page.locator('[data-ready="true"]')).toBeVisible();
+
+	let problem = page.waitForResponse((r) => r.url().includes('/api/v1/practice/end-thrust?seed='));
+	await page.getByLabel('Topic').selectOption('end-thrust');
+	const first: Problem = await (await problem).json();
+	await expect(page.getByTestId('prompt')).toHaveText(first.prompt);
+	await page.getByLabel('Your answer').fill(String(expectedAmount(first).value * 10));
+	await page.getByRole('button', { name: 'Check' }).click();
+	const feedback = page.getByTestId('feedback');
+	await expect(feedback).toContainText('Not quite');
+	await expect(feedback).toContainText('Worked solution');
+	await expect(feedback).toContainText('F = p × A');
+
+	problem = page.waitForResponse((r) => r.url().includes('/api/v1/practice/end-thrust?seed='));
+	await page.getByRole('button', { name: 'Next problem' }).click();
+	const second: Problem = await (await problem).json();
+	const right = expectedAmount(second);
+	await page.getByLabel('Your answer').fill(String(right.value));
+	await page.getByRole('button', { name: 'Check' }).click();
+	await expect(feedback).toContainText('Right');
+	await expect(page.getByText('Streak 1', { exact: true })).toBeVisible();
+
+	// The record stays on the device, and says that practice does not count.
+	await page.reload();
+	await expect(page.getByText('1 of 2 (50 %)')).toBeVisible();
+	await expect(page.getByText('Practice never counts toward a certificate')).toBeVisible();
+});
+
+test('the trainee fails the course test, waits, and passes', async ({ page }) => {
+	test.setTimeout(240_000);
+	await signInRequest(page.request, TRAINEE);
+	const first = await startAttempt(page, 1);
+	const draw = storedDraw(first);
+	expect(draw).toHaveLength(20);
+
+	// Answer the first item wrong, move on, and reload: the attempt resumes where it was.
+	await answerOnScreen(page, draw[0], wrongAnswer(draw[0]));
+	await page.getByRole('button', { name: 'Next', exact: true }).click();
+	await expect(page.getByText('Question 2 of 20')).toBeVisible();
+	await page.reload();
+	await expect(page.getByText('Question 2 of 20')).toBeVisible();
+	await expect(page.getByText('1 of 20 answered')).toBeVisible();
+	await expect(page.getByRole('button', { name: 'Question 1, answered' })).toBeVisible();
+
+	// Another person cannot see or change this attempt, and nobody sees a result before submission.
+	const other = await newRequest.newContext({ baseURL });
+	await signInRequest(other, 'priya@brindlewick.test');
+	expect((await other.get(`/api/v1/attempts/${first}`)).status()).toBe(404);
+	expect((await other.put(`/api/v1/attempts/${first}/answers/0`, { data: rightAnswer(draw[0]) })).status()).toBe(404);
+	expect((await other.post(`/api/v1/attempts/${first}/submit`, { data: {} })).status()).toBe(404);
+	expect((await page.request.get(`/api/v1/attempts/${first}/result`)).status()).toBe(409);
+	await other.dispose();
+
+	// Submit with most questions unanswered.
+	await page.getByRole('button', { name: 'Check and submit…' }).click();
+	await expect(page.getByText('19 questions are not answered yet')).toBeVisible();
+	await page.getByRole('button', { name: 'Submit my answers' }).click();
+	await expect(page).toHaveURL(new RegExp(`/courses/${COURSE}/test/${first}$`));
+	await expect(page.getByTestId('score')).toContainText('Not passed');
+	await expect(page.getByTestId('score')).toContainText('0 of 20 right');
+	await expect(page.getByTestId('review-item')).toHaveCount(20);
+	await expect(page.getByTestId('review-item').first()).toContainText('Right answer');
+
+	// A second submit changes nothing; a late answer is refused.
+	expect((await page.request.post(`/api/v1/attempts/${first}/submit`, { data: {} })).status()).toBe(409);
+	expect((await page.request.put(`/api/v1/attempts/${first}/answers/1`, { data: rightAnswer(draw[1]) })).status()).toBe(409);
+
+	// Starting again now is refused: the trainee waits.
+	await page.goto(`/courses/${COURSE}/test`);
+	await expect(page.getByTestId('waiting')).toContainText('Your next attempt can start from');
+	await expect(page.getByRole('button', { name: /Start attempt/ })).toHaveCount(0);
+	expect((await page.request.post(`/api/v1/courses/${COURSE}/attempts`, { data: {} })).status()).toBe(409);
+
+	// A trainer lifts the wait; the registrar's audit log shows it.
+	const staff = await page.context().browser()!.newContext({ baseURL });
+	const trainerPage = await staff.newPage();
+	await signInRequest(trainerPage.request, who.trainer);
+	await trainerPage.goto(`/trainer/attempts?course=${COURSE}`);
+	await trainerPage.getByRole('button', { name: `Allow a retake now for ${TRAINEE}` }).click();
+	await expect(trainerPage.getByRole('status')).toContainText('may start the next attempt now');
+	await staff.close();
+	const registrar = await newRequest.newContext({ baseURL });
+	await signInRequest(registrar, who.registrar);
+	expect(await (await registrar.get('/registrar/audit')).text()).toContain('test.wait-waived');
+	await registrar.dispose();
+
+	// The second attempt: every item answered right through the runner.
+	const second = await startAttempt(page, 2);
+	const draw2 = storedDraw(second);
+	for (let i = 0; i < draw2.length; i++) {
+		await expect(page.getByText(`Question ${i + 1} of 20`)).toBeVisible();
+		await answerOnScreen(page, draw2[i], rightAnswer(draw2[i]));
+		await page.getByRole('button', { name: i === draw2.length - 1 ? 'Finish' : 'Next', exact: true }).click();
+	}
+	await expect(page.getByText('Every question has an answer')).toBeVisible();
+	await page.getByRole('button', { name: 'Submit my answers' }).click();
+	await expect(page).toHaveURL(new RegExp(`/courses/${COURSE}/test/${second}$`));
+	await expect(page.getByTestId('score')).toContainText('100');
+	await expect(page.getByTestId('score')).toContainText('Passed');
+	await expect(page.locator('[data-testid="review-item"][data-correct="true"]')).toHaveCount(20);
+
+	await page.goto(`/courses/${COURSE}/test`);
+	await expect(page.getByText('You have passed this test.')).toBeVisible();
+});
+
+test('a trainer sees the attempts and the item statistics', async ({ page }) => {
+	await signInRequest(page.request, who.trainer);
+	await page.goto('/trainer');
+	await page.getByRole('link', { name: 'Test attempts and item statistics' }).click();
+	await page.getByRole('link', { name: 'PS-150' }).click();
+	const rows = page.getByTestId('attempt-row').filter({ hasText: TRAINEE });
+	await expect(rows).toHaveCount(2);
+	await expect(rows.first()).toContainText('Passed');
+	await expect(rows.last()).toContainText('Not passed');
+	await expect(rows.last()).toContainText('wait lifted');
+
+	await rows.first().getByRole('link', { name: 'Answers' }).click();
+	await expect(page.getByTestId('review-item')).toHaveCount(20);
+
+	await page.goto(`/trainer/attempts/items?course=${COURSE}`);
+	await expect(page.getByTestId('attempt-count')).toHaveText('2');
+	const items = page.getByTestId('item-stat');
+	expect(await items.count()).toBeGreaterThanOrEqual(20);
+	await expect(items.first()).toContainText('Drawn');
+	await expect(items.first()).toContainText('too few attempts');
+});
