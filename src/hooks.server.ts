@@ -1,5 +1,6 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
+import { building } from '$app/environment';
 import { authHandle } from '$lib/server/auth';
 import { config } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
@@ -8,6 +9,8 @@ import { seedDemo } from '$lib/server/demo-seed';
 import { loadIdentity } from '$lib/server/roles';
 
 export const init: ServerInit = async () => {
+	// Prerendering during `vite build` runs this hook too; the build must not touch a database.
+	if (building) return;
 	await migrateToLatest(getDb());
 	if (config.seedDemo && (await seedDemo())) console.log('Seeded the demo scenario.');
 };
