@@ -41,6 +41,7 @@ export class TestRunner {
 	/** Server clock minus this browser's clock. */
 	private readonly offsetMs: number;
 	private readonly timers = new Map<number, ReturnType<typeof setTimeout>>();
+	private readonly inflight = new Map<number, Promise<void>>();
 
 	readonly remainingMs = $derived.by(() => (this.deadlineMs === null ? null : Math.max(0, this.deadlineMs - (this.now + this.offsetMs))));
 	readonly answeredCount = $derived.by(() => this.items.filter((i) => isAnswered(this.answers[i.position])).length);
@@ -108,7 +109,15 @@ export class TestRunner {
 		);
 	}
 
-	private async save(position: number, keepalive = false): Promise<void> {
+	private save(position: number, keepalive = false): Promise<void> {
+		const sending = this.send(position, keepalive).finally(() => {
+			if (this.inflight.get(position) === sending) this.inflight.delete(position);
+		});
+		this.inflight.set(position, sending);
+		return sending;
+	}
+
+	private async send(position: number, keepalive: boolean): Promise<void> {
 		this.timers.delete(position);
 		const answer = this.answers[position];
 		if (!answer || this.finishedAt) return;
@@ -140,13 +149,16 @@ export class TestRunner {
 		}
 	}
 
-	/** Saves everything still waiting, now. `keepalive` lets the requests outlive a closing tab. */
+	/**
+	 * Saves everything still waiting, now, and waits for saves already on their way.
+	 * `keepalive` lets the requests outlive a closing tab.
+	 */
 	async flush(keepalive = false): Promise<void> {
 		const waiting = Object.entries(this.saves)
-			.filter(([, s]) => s.state !== 'saved')
+			.filter(([k, s]) => s.state === 'pending' || s.state === 'error' || (s.state === 'saving' && !this.inflight.has(Number(k))))
 			.map(([k]) => Number(k));
 		for (const position of waiting) clearTimeout(this.timers.get(position));
-		await Promise.all(waiting.map((position) => this.save(position, keepalive)));
+		await Promise.all([...waiting.map((position) => this.save(position, keepalive)), ...this.inflight.values()]);
 	}
 
 	private close(message: string) {
