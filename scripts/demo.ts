@@ -25,7 +25,8 @@ function newestMtime(dir: string): number {
 	return newest;
 }
 
-const built = path.join(root, 'build', 'handler.js');
+const buildDir = path.join(root, process.env.BUILD_DIR || 'build');
+const built = path.join(buildDir, 'handler.js');
 const sourcesChanged = ['src', 'content', 'migrations', 'static'].some(
 	(d) => fs.existsSync(built) && newestMtime(path.join(root, d)) > fs.statSync(built).mtimeMs
 );
@@ -44,7 +45,7 @@ if (!fs.existsSync(secretFile)) fs.writeFileSync(secretFile, randomBytes(32).toS
 
 const mail = await startMailFake({ smtpPort: 0, httpPort: 0, dir: path.join(dataDir, 'mail') });
 
-const app = spawn(process.execPath, [path.join(root, 'build')], {
+const app = spawn(process.execPath, [buildDir], {
 	cwd: root,
 	stdio: ['ignore', 'pipe', 'inherit'],
 	env: {
