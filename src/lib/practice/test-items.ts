@@ -41,6 +41,20 @@ export interface RunnerItem {
 	lesson: string | null;
 }
 
+/** An open attempt as the runner receives it: items without answers, and the person's own saved answers. */
+export interface RunnerView {
+	status: 'open';
+	id: string;
+	course: { slug: string; title: string };
+	startedAt: string;
+	deadlineAt: string | null;
+	/** The server's clock, so the browser's timer can allow for its own being off. */
+	serverNow: string;
+	items: RunnerItem[];
+	/** By position. */
+	answers: Record<string, ItemAnswer>;
+}
+
 export interface TestSpec {
 	/** Lesson slugs in course order. */
 	lessons: string[];

@@ -4,17 +4,9 @@
  * per attempt in localStorage so a reload resumes there, and the timer follows the server's
  * clock. When time runs out the attempt is submitted; the server grades it either way.
  */
-import { isAnswered, type ItemAnswer, type RunnerItem } from './test-items';
+import { isAnswered, type ItemAnswer, type RunnerItem, type RunnerView } from './test-items';
 
-export interface RunnerData {
-	id: string;
-	course: { slug: string; title: string };
-	startedAt: string;
-	deadlineAt: string | null;
-	serverNow: string;
-	items: RunnerItem[];
-	answers: Record<string, ItemAnswer>;
-}
+export type RunnerData = Omit<RunnerView, 'status'>;
 
 export type SaveState = { state: 'pending' | 'saving' | 'saved' | 'error'; message?: string };
 

@@ -28,7 +28,7 @@ import {
 	type ItemAnswer,
 	type ItemGrade,
 	type ReviewItem,
-	type RunnerItem
+	type RunnerView
 } from '$lib/practice/test-items';
 import { recordAudit } from './audit';
 import { db as defaultDb, inTransaction, type DB } from './db';
@@ -36,6 +36,8 @@ import type { TestAttemptTable } from './db/schema';
 import { isEnrolled } from './enrolments';
 import { fieldErrors } from './form';
 import { questionsFor } from './question-bank';
+
+export type { RunnerView } from '$lib/practice/test-items';
 
 /** A save or submit that left the browser just before the deadline is still accepted. */
 export const LATE_GRACE_MS = 5_000;
@@ -74,19 +76,6 @@ export interface AttemptSummary {
 	scorePercent: number | null;
 	passMark: number;
 	passed: boolean | null;
-}
-
-export interface RunnerView {
-	status: 'open';
-	id: string;
-	course: { slug: string; title: string };
-	startedAt: string;
-	deadlineAt: string | null;
-	/** The server's clock, so the browser's timer can allow for its own being off. */
-	serverNow: string;
-	items: RunnerItem[];
-	/** The person's own saved answers, by position. */
-	answers: Answers;
 }
 
 export interface AttemptReview extends AttemptSummary {
