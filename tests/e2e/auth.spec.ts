@@ -82,3 +82,21 @@ test.describe('signing up and in', () => {
 		await expect(page.getByText('expired or was already used')).toBeVisible();
 	});
 });
+
+test('text typed before the page finishes loading is kept (slow phone connection)', async ({ page }) => {
+	let release!: () => void;
+	const scriptsHeld = new Promise<void>((resolve) => (release = resolve));
+	await page.route('**/_app/immutable/**', async (route) => {
+		await scriptsHeld;
+		await route.continue();
+	});
+	await page.goto('/sign-in', { waitUntil: 'commit' });
+	const email = page.getByLabel('E-mail address').first();
+	await email.fill(who.trainer);
+	await page.getByLabel('Password').fill('patchwright-demo');
+	release();
+	await page.waitForLoadState('networkidle');
+	await expect(email).toHaveValue(who.trainer);
+	await page.getByRole('button', { name: 'Sign in', exact: true }).click();
+	await expect(page).toHaveURL(/\/dashboard$/);
+});
