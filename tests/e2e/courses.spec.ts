@@ -207,3 +207,14 @@ test('every lesson of every course renders at phone width without console errors
 		await expectNoSidewaysScroll(page, lesson.href);
 	}
 });
+
+test('the course page leads to practice and to the course test, with the test status', async ({ page }) => {
+	await signInWithPassword(page, who.trainee);
+	await page.goto('/courses/packer-pressure-safety');
+	await expect(page.getByTestId('test-status')).toHaveText(/\d+ attempts? left\.|Course test passed\.|test in progress/);
+	await page.getByRole('link', { name: 'Practice problems' }).click();
+	await expect(page).toHaveURL(/\/courses\/packer-pressure-safety\/practice$/);
+	await page.goto('/courses/packer-pressure-safety');
+	await page.getByRole('link', { name: /Course test|Resume the course test/ }).click();
+	await expect(page).toHaveURL(/\/courses\/packer-pressure-safety\/test$/);
+});

@@ -2,6 +2,7 @@ import { error } from '@sveltejs/kit';
 import { courses, getCourse } from '$lib/content';
 import { isEnrolled } from '$lib/server/enrolments';
 import { getCourseProgress } from '$lib/server/progress';
+import { testStatus } from '$lib/server/attempts';
 import type { PageServerLoad } from './$types';
 
 /** A course's outline, what its certificate proves, price and validity; progress when enrolled. */
@@ -18,6 +19,18 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 		},
 		outline: lessons.map(({ slug, title, order, minutes, preview, href }) => ({ slug, title, order, minutes, preview, href })),
 		enrolled,
-		progress: enrolled ? await getCourseProgress(locals.user!.id, course) : null
+		progress: enrolled ? await getCourseProgress(locals.user!.id, course) : null,
+		test: enrolled ? await summariseTest(locals.user!.id, course.slug) : null
 	};
 };
+
+async function summariseTest(userId: string, courseSlug: string) {
+	const status = await testStatus(userId, courseSlug);
+	if (!status) return null;
+	return {
+		passed: status.passed,
+		open: !!status.open,
+		attemptsLeft: status.attemptsLeft,
+		blocked: status.blocked?.message ?? null
+	};
+}
