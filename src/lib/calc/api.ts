@@ -44,10 +44,3 @@ export function answerCalculation(id: string, bodyText: string): ApiAnswer {
 	const { result, steps, sources, warnings } = out;
 	return { status: 200, body: { result, steps, sources, warnings } };
 }
-
-export function tooManyRequests(retryAfterSeconds: number): ApiAnswer {
-	return {
-		status: 429,
-		body: { error: `Too many requests from this address. Try again in ${retryAfterSeconds} s.` }
-	};
-}

@@ -55,3 +55,22 @@ function sweep(now: number, windowMs: number) {
 		if (now - window.startedAt >= windowMs) windows.delete(id);
 	}
 }
+
+export interface ApiLimit {
+	bucket: string;
+	limit: number;
+	windowMs: number;
+}
+
+/**
+ * For public JSON APIs: counts a request from the client's address and answers 429 with
+ * Retry-After once the window is used up; null while the request may go ahead.
+ */
+export function refuseIfLimited(event: { getClientAddress(): string }, { bucket, limit, windowMs }: ApiLimit): Response | null {
+	const verdict = hit(bucket, event.getClientAddress(), limit, windowMs);
+	if (verdict.ok) return null;
+	return Response.json(
+		{ error: `Too many requests from this address. Try again in ${verdict.retryAfterSeconds} s.` },
+		{ status: 429, headers: { 'Retry-After': String(verdict.retryAfterSeconds) } }
+	);
+}

@@ -1,11 +1,11 @@
 import { json } from '@sveltejs/kit';
-import { answerListing } from '$lib/calc/api';
+import { answerListing, CALCULATION_API_LIMIT } from '$lib/calc/api';
 import type { RequestHandler } from './$types';
-import { refuseIfLimited } from './limit';
+import { refuseIfLimited } from '$lib/server/rate-limit';
 
 /** Every calculator: id, title, inputs (name, unit, default, allowed range) and results. */
 export const GET: RequestHandler = (event) => {
-	const refused = refuseIfLimited(event);
+	const refused = refuseIfLimited(event, CALCULATION_API_LIMIT);
 	if (refused) return refused;
 	const { status, body } = answerListing();
 	return json(body, { status });

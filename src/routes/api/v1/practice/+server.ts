@@ -1,11 +1,11 @@
 import { json } from '@sveltejs/kit';
-import { answerListing } from '$lib/practice/api';
+import { answerListing, PRACTICE_API_LIMIT } from '$lib/practice/api';
 import type { RequestHandler } from './$types';
-import { refuseIfLimited } from './limit';
+import { refuseIfLimited } from '$lib/server/rate-limit';
 
 /** Every practice problem generator; no sign-in, limited per client address. */
 export const GET: RequestHandler = (event) => {
-	const refused = refuseIfLimited(event);
+	const refused = refuseIfLimited(event, PRACTICE_API_LIMIT);
 	if (refused) return refused;
 	const { status, body } = answerListing();
 	return json(body, { status });

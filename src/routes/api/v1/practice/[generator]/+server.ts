@@ -1,11 +1,11 @@
 import { json } from '@sveltejs/kit';
-import { answerProblem } from '$lib/practice/api';
+import { answerProblem, PRACTICE_API_LIMIT } from '$lib/practice/api';
 import type { RequestHandler } from './$types';
-import { refuseIfLimited } from '../limit';
+import { refuseIfLimited } from '$lib/server/rate-limit';
 
 /** One problem for ?seed=N (the same seed, the same problem), without its answer. */
 export const GET: RequestHandler = (event) => {
-	const refused = refuseIfLimited(event);
+	const refused = refuseIfLimited(event, PRACTICE_API_LIMIT);
 	if (refused) return refused;
 	const { status, body } = answerProblem(event.params.generator, event.url.searchParams.get('seed'));
 	return json(body, { status });
