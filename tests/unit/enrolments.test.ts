@@ -1,6 +1,6 @@
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { listAudit } from '$lib/server/audit';
-import { enrol, isEnrolled, listEnrolments } from '$lib/server/enrolments';
+import { enrol, enrolmentsByUser, isEnrolled, listEnrolments } from '$lib/server/enrolments';
 import { seedDemo } from '$lib/server/demo-seed';
 import { findUserByEmail, createUser } from '$lib/server/users';
 import { createTestDb } from '../helpers/db';
@@ -17,6 +17,10 @@ describe('enrolments', () => {
 		await enrol(null, u.id, 'transition-patches', 'registrar', db);
 		expect(await isEnrolled(u.id, 'transition-patches', db)).toBe(true);
 		expect(await listEnrolments(u.id, db)).toHaveLength(1);
+		const other = await createUser({ email: 'o@example.test', name: 'O' }, db);
+		const byUser = await enrolmentsByUser([u.id, other.id], db);
+		expect(byUser.get(u.id)).toEqual(['transition-patches']);
+		expect(byUser.get(other.id)).toEqual([]);
 		expect((await listAudit({ subjectId: u.id }, db)).filter((e) => e.action === 'enrolment.create')).toHaveLength(1);
 	});
 

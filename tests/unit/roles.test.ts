@@ -4,7 +4,7 @@ import { hasRole, isCompanyAdmin } from '$lib/roles';
 import { navigationFor } from '$lib/navigation';
 import { requireCompanyAdmin, requireRole, requireUser } from '$lib/server/authz';
 import { addMember, createCompany } from '$lib/server/companies';
-import { grantRole, loadIdentity, revokeRole } from '$lib/server/roles';
+import { grantRole, loadIdentity, revokeRole, rolesByUser } from '$lib/server/roles';
 import { listAudit } from '$lib/server/audit';
 import { checkPassword, createUser, EmailTakenError } from '$lib/server/users';
 import { createTestDb } from '../helpers/db';
@@ -42,6 +42,18 @@ describe('people, roles and companies', () => {
 		expect((await loadIdentity(u.id, db))!.roles).toEqual(['trainee', 'trainer']);
 		const actions = (await listAudit({ subjectId: u.id }, db)).map((e) => e.action);
 		expect(actions.sort()).toEqual(['role.grant', 'role.grant', 'role.revoke']);
+	});
+
+	it('list the roles of many people in one go, in the same order as one identity', async () => {
+		const a = await createUser({ email: 'a1@example.test', name: 'A' }, db);
+		const b = await createUser({ email: 'b1@example.test', name: 'B' }, db);
+		await grantRole(null, a.id, 'registrar', db);
+		await grantRole(null, a.id, 'trainer', db);
+		const roles = await rolesByUser([a.id, b.id], db);
+		expect(roles.get(a.id)).toEqual((await loadIdentity(a.id, db))!.roles);
+		expect(roles.get(a.id)).toEqual(['trainee', 'trainer', 'registrar']);
+		expect(roles.get(b.id)).toEqual(['trainee']);
+		expect((await rolesByUser([], db)).size).toBe(0);
 	});
 
 	it('refuse a second account for the same address and check passwords', async () => {

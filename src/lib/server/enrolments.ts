@@ -33,3 +33,17 @@ export async function enrol(actorId: string | null, userId: string, courseSlug: 
 		}
 	});
 }
+
+/** Enrolled course slugs for many people at once, keyed by user id. */
+export async function enrolmentsByUser(userIds: string[], db: DB = defaultDb): Promise<Map<string, string[]>> {
+	const byUser = new Map<string, string[]>(userIds.map((id) => [id, []]));
+	if (userIds.length === 0) return byUser;
+	const rows = await db
+		.selectFrom('enrolment')
+		.select(['user_id', 'course_slug'])
+		.where('user_id', 'in', userIds)
+		.orderBy('enrolled_at')
+		.execute();
+	for (const row of rows) byUser.get(row.user_id)?.push(row.course_slug);
+	return byUser;
+}

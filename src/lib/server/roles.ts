@@ -2,6 +2,8 @@ import type { Identity, PlatformRole, Role } from '$lib/roles';
 import { recordAudit } from './audit';
 import { db as defaultDb, inTransaction, type DB } from './db';
 
+const roleOrder: Role[] = ['trainee', 'trainer', 'inspector', 'registrar'];
+
 /** Loads the person with roles and company memberships; null when the account is gone. */
 export async function loadIdentity(userId: string, db: DB = defaultDb): Promise<Identity | null> {
 	const user = await db
@@ -20,9 +22,8 @@ export async function loadIdentity(userId: string, db: DB = defaultDb): Promise<
 			.orderBy('company.name')
 			.execute()
 	]);
-	const order: Role[] = ['trainee', 'trainer', 'inspector', 'registrar'];
 	const held = new Set<Role>(['trainee', ...roles.map((r) => r.role)]);
-	return { ...user, roles: order.filter((r) => held.has(r)), companies };
+	return { ...user, roles: roleOrder.filter((r) => held.has(r)), companies };
 }
 
 /** Grants a platform role (no-op when already held) and records who did it. */
@@ -52,9 +53,13 @@ export async function revokeRole(actorId: string | null, userId: string, role: P
 	});
 }
 
-/** Registrars may not remove their own registrar role: someone must be left to manage roles. */
-export class LastRegistrarError extends Error {
-	constructor() {
-		super('You cannot remove your own registrar role.');
-	}
+
+/** Platform roles for many people at once (everyone is also a trainee), keyed by user id. */
+export async function rolesByUser(userIds: string[], db: DB = defaultDb): Promise<Map<string, Role[]>> {
+	const byUser = new Map<string, Role[]>(userIds.map((id) => [id, ['trainee']]));
+	if (userIds.length === 0) return byUser;
+	const rows = await db.selectFrom('user_role').select(['user_id', 'role']).where('user_id', 'in', userIds).execute();
+	for (const row of rows) byUser.get(row.user_id)?.push(row.role);
+	for (const roles of byUser.values()) roles.sort((a, b) => roleOrder.indexOf(a) - roleOrder.indexOf(b));
+	return byUser;
 }

@@ -2,9 +2,9 @@ import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/authz';
 import { failWith, parseForm } from '$lib/server/form';
 import { enrolSchema, roleChangeSchema } from '$lib/server/role-forms';
-import { enrol, listEnrolments } from '$lib/server/enrolments';
+import { enrol, enrolmentsByUser } from '$lib/server/enrolments';
 import { courses } from '$lib/content';
-import { grantRole, loadIdentity, revokeRole } from '$lib/server/roles';
+import { grantRole, loadIdentity, revokeRole, rolesByUser } from '$lib/server/roles';
 import { searchUsers } from '$lib/server/users';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -12,13 +12,9 @@ export const load: PageServerLoad = async (event) => {
 	requireRole(event, 'registrar');
 	const q = (event.url.searchParams.get('q') ?? '').slice(0, 100);
 	const found = await searchUsers(q);
-	const people = await Promise.all(
-		found.map(async (p) => ({
-			...p,
-			roles: (await loadIdentity(p.id))?.roles ?? [],
-			enrolments: (await listEnrolments(p.id)).map((e) => e.course_slug)
-		}))
-	);
+	const ids = found.map((p) => p.id);
+	const [roles, enrolments] = await Promise.all([rolesByUser(ids), enrolmentsByUser(ids)]);
+	const people = found.map((p) => ({ ...p, roles: roles.get(p.id)!, enrolments: enrolments.get(p.id)! }));
 	return { q, people, courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })) };
 };
 
