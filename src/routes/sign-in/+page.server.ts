@@ -17,6 +17,8 @@ export const actions: Actions = {
 		const { email, password } = parsed.data;
 		const limited = limitSignIn(event, email);
 		if (limited) return failWith(429, parsed.form, limited);
+		// Checked here as well as in Auth.js's authorize(): Auth.js answers a wrong password only
+		// with a redirect to its error page, and the person should see the message on this form.
 		if (!(await checkPassword(email, password))) {
 			return failWith(400, parsed.form, 'That e-mail address and password do not match an account.', {
 				password: 'Check the password, or sign in with an e-mail link instead.'
