@@ -100,6 +100,7 @@ test('a visitor reads preview lessons and is sent to sign in for the rest', asyn
 
 	await page.goto(`${COURSE}/wet-out`);
 	await expect(page).toHaveURL(/\/sign-in\?next=%2Fcourses%2Fpoint-repair-installer%2Fwet-out$/);
+	await expect(page.getByText('Sign in to open that page.')).toBeVisible();
 	await page.getByLabel('E-mail address').first().fill(who.trainee);
 	await page.getByLabel('Password').fill('patchwright-demo');
 	await page.getByRole('button', { name: 'Sign in', exact: true }).click();
