@@ -14,6 +14,7 @@
  *   person's attempt is "not found".
  * - `now` is a parameter so that tests can move the clock (deadlines, waiting time).
  */
+import { isUniqueViolation } from './db/errors';
 import type { Selectable } from 'kysely';
 import { getCourse, type Course } from '$lib/content';
 import { lessonForGenerator } from '$lib/practice/course-lessons';
@@ -236,10 +237,6 @@ function runnerView(row: Row, course: Course, now: Date): RunnerView {
 		items: items(row).map((item, i) => runnerItem(item, i)),
 		answers: answersOf(row)
 	};
-}
-
-function isUniqueViolation(e: unknown): boolean {
-	return e instanceof Error && /UNIQUE constraint failed/.test(e.message);
 }
 
 /**

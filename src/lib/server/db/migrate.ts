@@ -17,9 +17,13 @@ export const bundledMigrations: MigrationProvider = {
 	}
 };
 
-/** Brings the schema to the newest migration; throws with the failing migration's error. */
+/**
+ * Brings the schema to the newest migration; throws with the failing migration's error.
+ * Unordered migrations are allowed: work merged from parallel branches may add a lower number
+ * than one a database already ran.
+ */
 export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
-	const migrator = new Migrator({ db, provider: bundledMigrations });
+	const migrator = new Migrator({ db, provider: bundledMigrations, allowUnorderedMigrations: true });
 	const { error, results } = await migrator.migrateToLatest();
 	if (error) {
 		const failed = results?.find((r) => r.status === 'Error')?.migrationName ?? 'unknown';
