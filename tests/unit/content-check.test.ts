@@ -113,6 +113,21 @@ describe('content check', () => {
 		]);
 	});
 
+	it('flags a lesson importing a component from outside the lesson and diagram folders', () => {
+		const body = [
+			'<script>',
+			"  import Calculator from '$lib/components/calc/Calculator.svelte';",
+			"  import CheckYourself from '$lib/components/lesson/CheckYourself.svelte';",
+			"  import MatWrap from '$lib/diagrams/MatWrap.svelte';",
+			'</script>',
+			'',
+			'## Sources'
+		].join('\n');
+		const found = messages(sample({ '/content/courses/tc/lessons/second.md': lesson(2, body) }));
+		expect(found).toHaveLength(1);
+		expect(found[0]).toContain('not "$lib/components/calc/Calculator.svelte"');
+	});
+
 	it('flags a lesson without a Sources section', () => {
 		expect(messages(sample({ '/content/courses/tc/lessons/second.md': lesson(2, 'Text.\n\n### Sources\n\nSources: none.\n') }))).toEqual([
 			'/content/courses/tc/lessons/second.md: No "## Sources" section: end the lesson with its sources (or "Common practice").'

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { courses, getLesson, loadLessonBody } from '$lib/content';
+import { courses, getLesson } from '$lib/content';
+import { lessonHtml } from '$lib/server/lesson-html';
 import { questionsFor } from '$lib/server/question-bank';
 
 describe('content loader', () => {
@@ -11,10 +12,22 @@ describe('content loader', () => {
 		}
 	});
 
-	it('loads a lesson body as a component', async () => {
-		const lesson = getLesson('point-repair-installer', 'wet-out');
-		expect(lesson?.href).toBe('/courses/point-repair-installer/wet-out');
-		expect(typeof (await loadLessonBody(lesson!))).toBe('function');
+	it('renders a lesson body once, with its islands marked and its math noted', async () => {
+		const lesson = getLesson('point-repair-installer', 'resin-quantity');
+		expect(lesson?.href).toBe('/courses/point-repair-installer/resin-quantity');
+		const first = lessonHtml(lesson!);
+		expect(lessonHtml(lesson!)).toBe(first);
+		const { html, math } = await first;
+		expect(math).toBe(true);
+		expect(html).toContain('data-island="calculator"');
+		expect(html).toContain('data-island="check-yourself"');
+		const props = [...html.matchAll(/data-island="calculator" data-props="([^"]*)"/g)].map((m) => JSON.parse(m[1].replaceAll('&quot;', '"')));
+		expect(props[0]).toMatchObject({ id: 'resin-quantity', here: lesson!.href });
+	});
+
+	it('notes a lesson without math', async () => {
+		const plain = courses.flatMap((c) => c.lessons).find((l) => l.slug === 'safety-first');
+		expect((await lessonHtml(plain!)).math).toBe(false);
 	});
 
 	it('parses every question bank with the strict schema', () => {

@@ -19,6 +19,11 @@ export interface ContentProblem {
 
 /** Pages beside a course's lessons that internal links may name. */
 const COURSE_SUBPAGES = new Set(['practice', 'test']);
+/**
+ * Where lessons may import components from: the lesson components (static ones and the
+ * interactive islands) and the static diagrams.
+ */
+const LESSON_IMPORTS = ['$lib/components/lesson/', '$lib/diagrams/'];
 const SLUG = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
 const COURSE_FILE = /^\/content\/courses\/([^/]+)\/course\.md$/;
 const LESSON_FILE = /^\/content\/courses\/([^/]+)\/lessons\/([^/]+)\.md$/;
@@ -69,7 +74,8 @@ function linkTargets(text: string): { target: string; index: number }[] {
  * Checks every course and lesson file. Rules: front matter present and valid (course and
  * lesson schemas), lesson slugs in kebab-case, unique lesson `order` per course, internal
  * links to existing courses, lessons and calculators, `<Calculator id="...">` naming a known
- * calculator, a `## Sources` section in every lesson, and prerequisites naming real courses.
+ * calculator, components imported only from the lesson and diagram folders, a `## Sources`
+ * section in every lesson, and prerequisites naming real courses.
  */
 export function checkContent(files: ContentFiles, calculatorIds: Iterable<string>): ContentProblem[] {
 	const problems: ContentProblem[] = [];
@@ -140,6 +146,14 @@ export function checkContent(files: ContentFiles, calculatorIds: Iterable<string
 				const line = lineAt(parsed.raw, parsed.bodyOffset + tag.start);
 				if (id === undefined) problems.push({ file, line, message: '<Calculator> needs a literal id="..." attribute.' });
 				else if (!calcIds.has(id)) problems.push({ file, line, message: `<Calculator id="${id}">: no calculator with that id.` });
+			}
+			for (const m of parsed.body.matchAll(/\bimport\s+[\w{}\s,]+\s+from\s+['"]([^'"]+)['"]/g)) {
+				if (LESSON_IMPORTS.some((prefix) => m[1].startsWith(prefix))) continue;
+				problems.push({
+					file,
+					line: lineAt(parsed.raw, parsed.bodyOffset + m.index!),
+					message: `Lessons import components from ${LESSON_IMPORTS.join(' or ')} only, not "${m[1]}": lesson bodies are rendered on the server, and only the islands there (Calculator, CheckYourself) come alive in the browser.`
+				});
 			}
 			if (!/^##[ \t]+Sources[ \t]*$/m.test(parsed.body)) {
 				problems.push({ file, message: 'No "## Sources" section: end the lesson with its sources (or "Common practice").' });

@@ -1,9 +1,9 @@
-import type { Component } from 'svelte';
 import { courseSchema, lessonSchema, type CourseMeta, type LessonMeta } from './schema';
 
 /**
  * The curriculum, indexed once from `content/courses/` at build time. Malformed front matter
- * fails loudly with the file's path. Only metadata is eager; lesson bodies load on demand.
+ * fails loudly with the file's path. Only metadata is here: lesson bodies are rendered by the
+ * server (`$lib/server/lesson-html`), never imported in browser code.
  * Question banks (with answers) are server-only: see `$lib/server/question-bank`.
  */
 
@@ -21,7 +21,6 @@ export interface Course extends CourseMeta {
 
 const courseFiles = import.meta.glob<Record<string, unknown>>('/content/courses/*/course.md', { eager: true, import: 'metadata' });
 const lessonFiles = import.meta.glob<Record<string, unknown>>('/content/courses/*/lessons/*.md', { eager: true, import: 'metadata' });
-const lessonBodies = import.meta.glob<{ default: Component }>('/content/courses/*/lessons/*.md');
 
 function parseOrThrow<T>(schema: { safeParse(v: unknown): { success: true; data: T } | { success: false; error: { issues: { path: PropertyKey[]; message: string }[] } } }, value: unknown, file: string): T {
 	const parsed = schema.safeParse(value);
@@ -56,11 +55,4 @@ export function getCourse(slug: string): Course | undefined {
 
 export function getLesson(courseSlug: string, lessonSlug: string): Lesson | undefined {
 	return getCourse(courseSlug)?.lessons.find((l) => l.slug === lessonSlug);
-}
-
-/** The lesson's compiled mdsvex component. */
-export async function loadLessonBody(lesson: Lesson): Promise<Component> {
-	const load = lessonBodies[`/content/courses/${lesson.courseSlug}/lessons/${lesson.slug}.md`];
-	if (!load) throw new Error(`No lesson file for ${lesson.href}`);
-	return (await load()).default;
 }

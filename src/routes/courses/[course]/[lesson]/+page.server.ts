@@ -2,13 +2,15 @@ import { error } from '@sveltejs/kit';
 import { getCourse, getLesson } from '$lib/content';
 import { requireUser } from '$lib/server/authz';
 import { hasRole } from '$lib/roles';
+import { lessonHtml } from '$lib/server/lesson-html';
 import { getCourseProgress, readingState } from '$lib/server/progress';
 import type { PageServerLoad } from './$types';
 
 /**
  * A lesson with its course outline. Preview lessons are open to everyone; the rest need an
  * enrolment: a visitor is sent to sign in, a signed-in person without one gets a 403.
- * Trainers and registrars may read every lesson.
+ * Trainers and registrars may read every lesson. The body is server-rendered HTML (the same
+ * for every reader, rendered once) and reaches only those who pass these checks.
  */
 export const load: PageServerLoad = async (event) => {
 	const { params, locals } = event;
@@ -25,6 +27,10 @@ export const load: PageServerLoad = async (event) => {
 	const outline = course.lessons.map(({ slug, title, order, minutes, preview, href }) => ({ slug, title, order, minutes, preview, href }));
 	const at = outline.findIndex((l) => l.slug === lesson.slug);
 	const enrolled = state === 'enrolled';
+	const [body, doneLessons] = await Promise.all([
+		lessonHtml(lesson),
+		enrolled ? getCourseProgress(locals.user!.id, course).then((p) => p.doneLessons) : []
+	]);
 	return {
 		course: { slug: course.slug, title: course.title, code: course.code },
 		lesson: { slug: lesson.slug, title: lesson.title, order: lesson.order, minutes: lesson.minutes, preview: lesson.preview, objectives: lesson.objectives },
@@ -32,6 +38,7 @@ export const load: PageServerLoad = async (event) => {
 		previous: outline[at - 1] ?? null,
 		next: outline[at + 1] ?? null,
 		enrolled,
-		doneLessons: enrolled ? (await getCourseProgress(locals.user!.id, course)).doneLessons : []
+		doneLessons,
+		body
 	};
 };
