@@ -80,11 +80,9 @@ export async function clear(bucket: string, key: string): Promise<void> {
 	limitStore().prepare('delete from rate_limit where key = ?').run(`${bucket}:${key}`);
 }
 
-/** Tests start from a clean slate. */
+/** Tests start from a clean slate: counts move to a fresh in-memory table. */
 export function resetAll(): void {
-	const s = limitStore();
-	s.prepare('create table if not exists rate_limit (key text primary key, points integer not null default 0, expire integer)').run();
-	s.prepare('delete from rate_limit').run();
+	useLimitStore(new Database(':memory:'));
 }
 
 export interface ApiLimit {

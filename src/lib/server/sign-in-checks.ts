@@ -1,4 +1,5 @@
 import { config } from './config';
+import { db as defaultDb, type DB } from './db';
 import type { RequestContext } from './request-context';
 import { clear, hit, type RateLimitResult } from './rate-limit';
 import { checkPassword } from './users';
@@ -19,7 +20,7 @@ export type SignInVerdict =
 
 const verified = new WeakMap<RequestContext, SignInUser>();
 
-export async function verifySignIn(email: string, password: string, context: RequestContext): Promise<SignInVerdict> {
+export async function verifySignIn(email: string, password: string, context: RequestContext, db: DB = defaultDb): Promise<SignInVerdict> {
 	const already = verified.get(context);
 	if (already && already.email === email) return { outcome: 'ok', user: already };
 
@@ -29,7 +30,7 @@ export async function verifySignIn(email: string, password: string, context: Req
 	if (!byEmail.ok || !byIp.ok) {
 		return { outcome: 'limited', retryAfterSeconds: Math.max(byEmail.retryAfterSeconds, byIp.retryAfterSeconds) };
 	}
-	const checked = await checkPassword(email, password);
+	const checked = await checkPassword(email, password, db);
 	if (checked.outcome !== 'ok') return checked;
 	await clear('sign-in-email', email);
 	verified.set(context, checked.user);
