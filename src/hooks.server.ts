@@ -76,7 +76,8 @@ const identity: Handle = async ({ event, resolve }) => {
 	event.locals.user = null;
 	event.locals.sessionId = null;
 	event.locals.databaseBusy = false;
-	const sessionId = await sessionIdFromCookie(event.cookies, authSecret());
+	if (building) return resolve(event);
+	const sessionId = await sessionIdFromCookie(event.cookies, authSecret);
 	if (sessionId) {
 		event.locals.user = await identityForSession(sessionId);
 		if (event.locals.user) event.locals.sessionId = sessionId;

@@ -25,7 +25,7 @@ function remember(cookie: string, claims: Claims | null) {
 }
 
 /** The server-side session id the cookie names, or null (no cookie, not ours, expired, or from before sessions had ids). */
-export async function sessionIdFromCookie(cookies: Pick<Cookies, 'get'>, secret: string): Promise<string | null> {
+export async function sessionIdFromCookie(cookies: Pick<Cookies, 'get'>, secret: () => string): Promise<string | null> {
 	for (const name of COOKIE_NAMES) {
 		const value = cookies.get(name);
 		if (!value) continue;
@@ -34,7 +34,7 @@ export async function sessionIdFromCookie(cookies: Pick<Cookies, 'get'>, secret:
 		if (claims === undefined) {
 			claims = null;
 			try {
-				const payload = await decode({ token: value, secret, salt: name });
+				const payload = await decode({ token: value, secret: secret(), salt: name });
 				if (payload && typeof payload.sid === 'string' && typeof payload.exp === 'number') {
 					claims = { sessionId: payload.sid, expiresAt: payload.exp };
 				}
