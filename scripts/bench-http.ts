@@ -9,7 +9,9 @@
  * measure the pipeline and not the 429 answers (the 429 count is reported all the same).
  *
  * BENCH_SECONDS (default 6) sets each target's measured run; BENCH_CPU_PROF=<folder> runs
- * the app under `node --cpu-prof` and leaves the profile there when the bench ends.
+ * the app under `node --cpu-prof` and leaves the profile there when the bench ends;
+ * BENCH_TARGETS=<text> loads only the targets whose name contains it (no page weights then),
+ * to profile one path at a time.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
@@ -25,6 +27,7 @@ const root = path.resolve(import.meta.dirname, '..');
 const CONNECTIONS = 50;
 const SECONDS = Number(process.env.BENCH_SECONDS || 6);
 const WARM_UP_SECONDS = 2;
+const BARE_SECONDS = Math.max(2, Math.round(SECONDS / 2));
 const TRAINEE = { email: 'sam@brindlewick.test', password: 'patchwright-demo' };
 const SIGNED_IN_LESSON = '/courses/point-repair-installer/resin-quantity';
 
@@ -189,6 +192,52 @@ export function appTargets(): Target[] {
 	];
 }
 
+interface PairedResult {
+	app: LoadResult;
+	/** The bare server, measured just before this target. */
+	bare: LoadResult;
+}
+
+function printLoad(rows: PairedResult[]) {
+	const width = Math.max(...rows.map((r) => r.app.name.length), 6);
+	const num = (n: number) => Math.round(n).toLocaleString('en-US');
+	console.log(`\nHTTP: ${CONNECTIONS} connections, ${SECONDS} s per target after ${WARM_UP_SECONDS} s warm-up (autocannon)`);
+	console.log('Each target is measured right after the bare node:http + better-sqlite3 point lookup (100,000 rows)');
+	console.log('on the same machine, and "vs bare" is the ratio of the two: other load on the machine weighs on both.');
+	console.log(
+		`${'target'.padEnd(width)}  ${'req/s'.padStart(8)}  ${'p50 ms'.padStart(7)}  ${'p99 ms'.padStart(7)}  ${'errors'.padStart(6)}  ${'non-2xx'.padStart(7)}  ${'429'.padStart(5)}  ${'bare req/s'.padStart(10)}  ${'bare p99'.padStart(8)}  ${'vs bare'.padStart(7)}`
+	);
+	for (const { app: r, bare } of rows) {
+		const ratio = `${((100 * r.requestsPerSecond) / bare.requestsPerSecond).toFixed(1)} %`;
+		console.log(
+			`${r.name.padEnd(width)}  ${num(r.requestsPerSecond).padStart(8)}  ${r.p50.toFixed(1).padStart(7)}  ${r.p99.toFixed(1).padStart(7)}  ${String(r.errors).padStart(6)}  ${String(r.non2xx).padStart(7)}  ${String(r.tooMany).padStart(5)}  ${num(bare.requestsPerSecond).padStart(10)}  ${bare.p99.toFixed(1).padStart(8)}  ${ratio.padStart(7)}`
+		);
+	}
+}
+
+/** Page weight runs in its own plain Node process (see scripts/bench-pages.mjs). */
+function weighPages(appUrl: string): Promise<void> {
+	const child = spawn(process.execPath, [path.join(root, 'scripts/bench-pages.mjs'), appUrl, TRAINEE.email, TRAINEE.password], { cwd: root, stdio: 'inherit' });
+	return new Promise((resolve, reject) => {
+		child.once('error', reject);
+		child.once('exit', (code) => (code === 0 ? resolve() : reject(new Error(`page weights: exit code ${code}`))));
+	});
+}
+
+export function appTargets(): Target[] {
+	const calc = Object.values(calculators).find((c) => c.id === 'resin-quantity') ?? Object.values(calculators)[0];
+	const generator = listGenerators()[0].id;
+	return [
+		{ name: 'GET /api/v1/health', path: '/api/v1/health' },
+		{ name: `POST /api/v1/calculations/${calc.id}`, path: `/api/v1/calculations/${calc.id}`, method: 'POST', body: JSON.stringify({ inputs: defaultInputs(calc) }) },
+		{ name: `GET /api/v1/practice/${generator}?seed=7`, path: `/api/v1/practice/${generator}?seed=7` },
+		{ name: 'GET /courses (catalogue)', path: '/courses' },
+		{ name: `GET ${SIGNED_IN_LESSON} (signed in)`, path: SIGNED_IN_LESSON, signedIn: true },
+		{ name: 'GET /api/v1/me (signed in)', path: '/api/v1/me', signedIn: true },
+		{ name: 'GET /api/v1/health (signed in)', path: '/api/v1/health', signedIn: true }
+	];
+}
+
 function meanOf(a: LoadResult, b: LoadResult): LoadResult {
 	const mean = (x: number, y: number) => (x + y) / 2;
 	return {
@@ -222,18 +271,19 @@ export async function runHttpBench(): Promise<void> {
 	const bare = await startBare();
 	let app: Awaited<ReturnType<typeof startApp>> | null = null;
 	try {
-		// The bare server is measured before and after the app and the mean is the yardstick,
-		// so that load from other work on the machine during the run weighs on both sides.
-		const bareTarget: Target = { name: 'bare node:http + better-sqlite3 lookup', path: '/items/4242' };
-		const bareBefore = await measure(bare.url, bareTarget, null);
+		const bareTarget: Target = { name: 'bare', path: '/items/4242' };
+		await load(bare.url, bareTarget, null, WARM_UP_SECONDS);
 		app = await startApp(buildDir);
 		const cookie = await signIn(app.url, TRAINEE.email, TRAINEE.password);
-		const rows: LoadResult[] = [];
-		for (const target of appTargets()) rows.push(await measure(app.url, target, cookie));
-		const bareAfter = await measure(bare.url, bareTarget, null);
-		printLoad(meanOf(bareBefore, bareAfter), rows);
-		console.log(`(bare server before the app: ${Math.round(bareBefore.requestsPerSecond)} req/s, after: ${Math.round(bareAfter.requestsPerSecond)} req/s)`);
-		await weighPages(app.url);
+		const only = process.env.BENCH_TARGETS;
+		const rows: PairedResult[] = [];
+		for (const target of appTargets()) {
+			if (only && !target.name.includes(only)) continue;
+			const bareResult = await load(bare.url, bareTarget, null, BARE_SECONDS);
+			rows.push({ bare: bareResult, app: await measure(app.url, target, cookie) });
+		}
+		printLoad(rows);
+		if (!only) await weighPages(app.url);
 	} finally {
 		await stop(bare.child);
 		if (app) {

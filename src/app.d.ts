@@ -14,6 +14,8 @@ declare global {
 			sessionId: string | null;
 			/** Set by handleError when the database's write lock could not be had: the answer becomes 503. */
 			databaseBusy: boolean;
+			/** A lesson body this person may read, put into the page by the `lessonBody` hook (see $lib/server/lesson-html). */
+			lessonBody?: string;
 		}
 		interface PageData {
 			user?: Identity | null;

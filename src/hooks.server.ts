@@ -8,6 +8,7 @@ import { DataDirError } from '$lib/server/db/connect';
 import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
+import { fillLessonBodySlot } from '$lib/server/lesson-html';
 import { withRequestContext } from '$lib/server/request-context';
 import { sessionIdFromCookie } from '$lib/server/session-cookie';
 import { identityForSession } from '$lib/server/sessions';
@@ -89,7 +90,11 @@ const identity: Handle = async ({ event, resolve }) => {
 	);
 };
 
-export const handle = sequence(responseRules, identity);
+/** A lesson page's body goes into the rendered page here, not through the page data. */
+const lessonBody: Handle = ({ event, resolve }) =>
+	resolve(event, { transformPageChunk: ({ html }) => fillLessonBodySlot(html, event.locals.lessonBody) });
+
+export const handle = sequence(responseRules, identity, lessonBody);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };

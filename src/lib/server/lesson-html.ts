@@ -1,13 +1,18 @@
 import type { Component } from 'svelte';
 import { render } from 'svelte/server';
 import type { Lesson } from '$lib/content';
-import { LESSON_HREF } from '$lib/components/lesson/islands';
+import { LESSON_HREF, LESSON_BODY_SLOT } from '$lib/components/lesson/islands';
 
 /**
  * Lesson bodies as HTML, rendered on the server only. The compiled lessons are imported here
  * and nowhere in browser code, so no lesson text is in a public client file; the page sends
  * this HTML only to people who may read the lesson (the route decides) and mounts the
  * islands in it. A body is the same for every reader, so each is rendered once per process.
+ *
+ * On a full page load the body is not part of the page data (which would send it twice and
+ * escape it character by character on every request): the page renders LESSON_BODY_SLOT and
+ * the `lessonBody` hook puts the body there. Svelte keeps server-rendered `{@html}` content
+ * as it is when the page hydrates. Client-side navigation gets the body in the data instead.
  */
 
 export interface LessonHtml {
@@ -24,7 +29,10 @@ async function renderLesson(lesson: Lesson): Promise<LessonHtml> {
 	if (!load) throw new Error(`No lesson file for ${lesson.href}`);
 	const Body = (await load()).default;
 	const { body } = render(Body, { context: new Map([[LESSON_HREF, lesson.href]]), idPrefix: `${lesson.slug}-` });
-	return { html: body, math: body.includes('class="katex"') };
+	// Svelte's hydration markers are comments; the body is static HTML (islands mount afresh), and
+	// an empty comment inside `{@html}` would end the block early when the page hydrates.
+	const html = body.replace(/<!--[\s\S]*?-->/g, '');
+	return { html, math: html.includes('class="katex"') };
 }
 
 export function lessonHtml(lesson: Lesson): Promise<LessonHtml> {
@@ -35,4 +43,11 @@ export function lessonHtml(lesson: Lesson): Promise<LessonHtml> {
 		html.catch(() => rendered.delete(lesson.href));
 	}
 	return html;
+}
+
+/** Puts a lesson body the load function has allowed (`locals.lessonBody`) into the page. */
+export function fillLessonBodySlot(html: string, body: string | undefined): string {
+	if (body === undefined) return html;
+	const at = html.indexOf(LESSON_BODY_SLOT);
+	return at === -1 ? html : html.slice(0, at) + body + html.slice(at + LESSON_BODY_SLOT.length);
 }

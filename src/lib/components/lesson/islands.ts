@@ -8,6 +8,9 @@ import { mount, unmount, type Component } from 'svelte';
  * interactive component there with the same props. Only these components' code ships.
  */
 
+/** Where the server puts the lesson body in a fully rendered page (see $lib/server/lesson-html). */
+export const LESSON_BODY_SLOT = '<!--lesson-body-->';
+
 /** Context key under which the lesson renderer passes the lesson's own path to its islands. */
 export const LESSON_HREF = 'patchwright:lesson-href';
 

@@ -31,6 +31,8 @@ export const load: PageServerLoad = async (event) => {
 		lessonHtml(lesson),
 		enrolled ? getCourseProgress(locals.user!.id, course).then((p) => p.doneLessons) : []
 	]);
+	// A full page gets the body from the lessonBody hook; client-side navigation gets it here.
+	if (!event.isDataRequest) locals.lessonBody = body.html;
 	return {
 		course: { slug: course.slug, title: course.title, code: course.code },
 		lesson: { slug: lesson.slug, title: lesson.title, order: lesson.order, minutes: lesson.minutes, preview: lesson.preview, objectives: lesson.objectives },
@@ -39,6 +41,6 @@ export const load: PageServerLoad = async (event) => {
 		next: outline[at + 1] ?? null,
 		enrolled,
 		doneLessons,
-		body
+		body: { math: body.math, html: event.isDataRequest ? body.html : null }
 	};
 };
