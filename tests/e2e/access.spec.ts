@@ -1,4 +1,4 @@
-import { expect, request as newRequest, test } from '@playwright/test';
+import { expect, request as newRequest, test, type APIResponse } from '@playwright/test';
 import { baseURL, signInRequest, who, type Identity } from './support';
 
 /**
@@ -52,6 +52,16 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }]
 ];
 
+const codes: Record<number, string> = { 400: 'bad_request', 401: 'unauthorized', 403: 'forbidden', 404: 'not_found', 409: 'conflict', 413: 'payload_too_large', 415: 'unsupported_media_type' };
+
+/** Every API refusal is JSON in the one shape: {error: {code, message}}, never HTML, never cached. */
+async function expectApiError(response: APIResponse, status: number, label: string) {
+	expect(response.headers()['content-type'], label).toMatch(/^application\/json/);
+	expect(response.headers()['cache-control'], label).toBe('no-store');
+	const body = await response.json();
+	expect(body.error, label).toMatchObject({ code: codes[status], message: expect.any(String) });
+}
+
 function expected(rule: (typeof table)[number][1], identity: Identity): Expect {
 	if (typeof rule !== 'object') return rule;
 	return rule[identity] ?? rule.other;
@@ -73,6 +83,7 @@ for (const identity of identities) {
 				expect(response.status(), label).toBe(303);
 				expect(response.headers().location, label).toBe('/dashboard');
 			} else expect(response.status(), label).toBe(want);
+			if (typeof want === 'number' && path.startsWith('/api/')) await expectApiError(response, want, label);
 			if (want === 403) {
 				// A refusal leaks nothing of the page behind it, such as other people's addresses.
 				const body = await response.text();
