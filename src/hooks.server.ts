@@ -1,6 +1,7 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
+import { apiError, apiGuard, errorIds, isApiPath } from '$lib/server/api';
 import { authHandle, authSecret } from '$lib/server/auth';
 import { ConfigError, loadConfig } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
@@ -39,11 +40,11 @@ const RETRY_AFTER_SECONDS = 2;
  */
 const responseRules: Handle = async ({ event, resolve }) => {
 	let response = await resolve(event);
-	const isApi = event.url.pathname.startsWith('/api/');
+	const isApi = isApiPath(event.url.pathname);
 	if (event.locals.databaseBusy) {
 		const message = 'The database is busy. Try again in a moment.';
 		response = isApi
-			? Response.json({ error: { code: 'unavailable', message } }, { status: 503 })
+			? apiError(503, 'unavailable', message)
 			: new Response(`<!doctype html><meta charset="utf-8"><title>Busy · Patchwright</title><p>${message}</p>`, {
 					status: 503,
 					headers: { 'Content-Type': 'text/html; charset=utf-8' }
@@ -94,7 +95,7 @@ const identity: Handle = async ({ event, resolve }) => {
 const lessonBody: Handle = ({ event, resolve }) =>
 	resolve(event, { transformPageChunk: ({ html }) => fillLessonBodySlot(html, event.locals.lessonBody) });
 
-export const handle = sequence(responseRules, identity, lessonBody);
+export const handle = sequence(responseRules, apiGuard, identity, lessonBody);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };
@@ -104,5 +105,6 @@ export const handleError: HandleServerError = ({ error, event, status, message }
 	}
 	const id = crypto.randomUUID().slice(0, 8);
 	console.error(`[error ${id}] ${event.request.method} ${event.url.pathname}`, error);
+	errorIds.set(event.request, id);
 	return { message: status >= 500 ? 'Something went wrong on our side.' : message, id };
 };

@@ -8,7 +8,7 @@ import { config } from './config';
 import { getDb } from './db';
 import { sendMail } from './mail';
 import { requestContext } from './request-context';
-import { endSession, startSession } from './sessions';
+import { endSession, identityForSession, startSession } from './sessions';
 import { countLinkMail, verifySignIn } from './sign-in-checks';
 import { dropUnconfirmedPassword } from './users';
 import { signInSchema } from '$lib/forms';
@@ -98,8 +98,12 @@ function getAuthConfig(): SvelteKitAuthConfig {
 		callbacks: {
 			async jwt({ token, user }) {
 				// `user` is there only at sign-in: open the server-side session the cookie will name.
-				if (user?.id) token.sid = await startSession(user.id, db);
-				return token;
+				if (user?.id) {
+					token.sid = await startSession(user.id, db);
+					return token;
+				}
+				// Auth.js's own session endpoint: an ended session is no session there either.
+				return typeof token.sid === 'string' && (await identityForSession(token.sid, db)) ? token : null;
 			},
 			session({ session, token }) {
 				if (token.sub) session.user.id = token.sub;

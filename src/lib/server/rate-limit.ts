@@ -1,5 +1,6 @@
 import Database from 'better-sqlite3';
 import { RateLimiterRes, RateLimiterSQLite } from 'rate-limiter-flexible';
+import { apiError } from './api';
 import { config } from './config';
 import { ensureWritableDir } from './db/connect';
 
@@ -91,19 +92,14 @@ export interface ApiLimit {
 	windowMs: number;
 }
 
-/** The JSON API's refusal shape, `{ error: { code, message } }`, with Retry-After. */
-export function tooManyRequests(retryAfterSeconds: number): Response {
-	return Response.json(
-		{ error: { code: 'rate_limited', message: `Too many requests from this address. Try again in ${retryAfterSeconds} s.` } },
-		{ status: 429, headers: { 'Retry-After': String(retryAfterSeconds), 'Cache-Control': 'no-store' } }
-	);
-}
-
 /**
  * For public JSON APIs: counts a request from the client's address and answers 429 with
  * Retry-After once the window is used up; null while the request may go ahead.
  */
 export async function refuseIfLimited(event: { getClientAddress(): string }, { bucket, limit, windowMs }: ApiLimit): Promise<Response | null> {
 	const verdict = await hit(bucket, event.getClientAddress(), scaledLimit(limit), windowMs);
-	return verdict.ok ? null : tooManyRequests(verdict.retryAfterSeconds);
+	if (verdict.ok) return null;
+	return apiError(429, 'rate_limited', `Too many requests from this address. Try again in ${verdict.retryAfterSeconds} s.`, undefined, {
+		headers: { 'Retry-After': String(verdict.retryAfterSeconds) }
+	});
 }

@@ -19,9 +19,17 @@ export type EndReason = 'sign-out' | 'password-reset' | 'role-removed' | 'signed
 /** How stale `last_seen_at` may get before a request writes it again (keeps reads read-only). */
 const TOUCH_EVERY_MS = 5 * 60 * 1000;
 
+/** Ended or expired sessions are kept this long for the record, then removed when the person next signs in. */
+const KEEP_FOR_MS = 30 * 24 * 60 * 60 * 1000;
+
 export async function startSession(userId: string, db: DB = defaultDb): Promise<string> {
 	const now = new Date();
 	const id = crypto.randomUUID();
+	await db
+		.deleteFrom('user_session')
+		.where('user_id', '=', userId)
+		.where('expires_at', '<', new Date(now.getTime() - KEEP_FOR_MS).toISOString())
+		.execute();
 	await db
 		.insertInto('user_session')
 		.values({
