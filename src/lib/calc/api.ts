@@ -8,7 +8,7 @@
  *   404 {error: {code, message}} for an unknown calculator
  * (the route adds 413 and 415 when it reads the body).
  */
-import { errorBody } from '$lib/api-error';
+import { errorBody } from '../api-error';
 import { getCalculator, listCalculators, runCalculation } from './index';
 
 /** Requests per IP address per window, shared by the listing and the calculations. */

@@ -10,7 +10,7 @@
  * for an unknown generator (the route adds 413 and 415 when it reads the body).
  */
 import { z } from 'zod';
-import { errorBody, zodFields } from '$lib/api-error';
+import { errorBody, zodFields } from '../api-error';
 import { unitChoices } from './grading';
 import { checkAnswer, generateProblem, getGenerator, listGenerators, MAX_SEED, publicProblem, randomSeed } from './index';
 
