@@ -215,52 +215,6 @@ function printLoad(rows: PairedResult[]) {
 	}
 }
 
-/** Page weight runs in its own plain Node process (see scripts/bench-pages.mjs). */
-function weighPages(appUrl: string): Promise<void> {
-	const child = spawn(process.execPath, [path.join(root, 'scripts/bench-pages.mjs'), appUrl, TRAINEE.email, TRAINEE.password], { cwd: root, stdio: 'inherit' });
-	return new Promise((resolve, reject) => {
-		child.once('error', reject);
-		child.once('exit', (code) => (code === 0 ? resolve() : reject(new Error(`page weights: exit code ${code}`))));
-	});
-}
-
-export function appTargets(): Target[] {
-	const calc = Object.values(calculators).find((c) => c.id === 'resin-quantity') ?? Object.values(calculators)[0];
-	const generator = listGenerators()[0].id;
-	return [
-		{ name: 'GET /api/v1/health', path: '/api/v1/health' },
-		{ name: `POST /api/v1/calculations/${calc.id}`, path: `/api/v1/calculations/${calc.id}`, method: 'POST', body: JSON.stringify({ inputs: defaultInputs(calc) }) },
-		{ name: `GET /api/v1/practice/${generator}?seed=7`, path: `/api/v1/practice/${generator}?seed=7` },
-		{ name: 'GET /courses (catalogue)', path: '/courses' },
-		{ name: `GET ${SIGNED_IN_LESSON} (signed in)`, path: SIGNED_IN_LESSON, signedIn: true },
-		{ name: 'GET /api/v1/me (signed in)', path: '/api/v1/me', signedIn: true },
-		{ name: 'GET /api/v1/health (signed in)', path: '/api/v1/health', signedIn: true }
-	];
-}
-
-function meanOf(a: LoadResult, b: LoadResult): LoadResult {
-	const mean = (x: number, y: number) => (x + y) / 2;
-	return {
-		name: a.name,
-		requestsPerSecond: mean(a.requestsPerSecond, b.requestsPerSecond),
-		p50: mean(a.p50, b.p50),
-		p99: mean(a.p99, b.p99),
-		errors: a.errors + b.errors,
-		non2xx: a.non2xx + b.non2xx,
-		tooMany: a.tooMany + b.tooMany
-	};
-}
-
-function printLoad(bare: LoadResult, rows: LoadResult[]) {
-	const width = Math.max(...[bare, ...rows].map((r) => r.name.length));
-	const line = (r: LoadResult, ratio: string) =>
-		`${r.name.padEnd(width)}  ${Math.round(r.requestsPerSecond).toLocaleString('en-US').padStart(8)}  ${r.p50.toFixed(1).padStart(7)}  ${r.p99.toFixed(1).padStart(7)}  ${String(r.errors).padStart(6)}  ${String(r.non2xx).padStart(7)}  ${String(r.tooMany).padStart(5)}  ${ratio.padStart(7)}`;
-	console.log(`\nHTTP: ${CONNECTIONS} connections, ${SECONDS} s per target after ${WARM_UP_SECONDS} s warm-up (autocannon)`);
-	console.log(`${'target'.padEnd(width)}  ${'req/s'.padStart(8)}  ${'p50 ms'.padStart(7)}  ${'p99 ms'.padStart(7)}  ${'errors'.padStart(6)}  ${'non-2xx'.padStart(7)}  ${'429'.padStart(5)}  ${'vs bare'.padStart(7)}`);
-	console.log(line(bare, '100 %'));
-	for (const r of rows) console.log(line(r, `${((100 * r.requestsPerSecond) / bare.requestsPerSecond).toFixed(1)} %`));
-}
-
 export async function runHttpBench(): Promise<void> {
 	const buildDir = path.join(root, process.env.BUILD_DIR || 'build');
 	if (!existsSync(path.join(buildDir, 'index.js'))) {
