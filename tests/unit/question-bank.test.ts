@@ -265,14 +265,14 @@ const RECOMPUTE: Record<string, () => Unit> = {
 	// ASTM D3034 SDR 35: minimum wall = OD / 35.
 	'pri-024': () => unit(6.275 - (2 * 6.275) / 35, 'inch'),
 	// Resin = glass x ratio x (1 + waste).
-	'pri-025': () => unit(matArea(3, 150, 600) * 1.0 * 1.2 * 1.15, 'kg'),
+	'pri-025': () => unit(matArea(3, 150, 600) * 1.0 * 2.0 * 1.15, 'kg'),
 	'pri-026': () => unit(matArea(4, 150, 400) * 0.6, 'kg'),
-	'pri-027': () => unit(matArea(3, 200, 800) * 1.0 * 1.3 * 1.1, 'kg'),
+	'pri-027': () => unit(matArea(3, 200, 800) * 1.0 * 2.4 * 1.1, 'kg'),
 	// Annulus volume pi/4 (D^2 - (D - 2t)^2) L, written out independently of pi t (D - t) L.
 	'pri-028': () => unit((PI / 4) * (150 ** 2 - (150 - 12) ** 2) * 600, 'mm^3'),
 	'pri-029': () => unit(matArea(2, 300, 1000), 'm^2'),
 	'pri-043': () => waterHead(3.5),
-	'pri-048': () => cureMinutes(100, 22, 12),
+	'pri-048': () => cureMinutes(100, 25, 15),
 	'pri-049': () => cureMinutes(180, 20, 30),
 	'pri-054': () => waterAllowance([[225, 40]], 0.15),
 	'pri-055': () => airTest(6, 200, 1.0),
@@ -445,7 +445,7 @@ describe('the validator rejects broken banks', () => {
 	it('catches a numeric answer that disagrees with its recomputation', () => {
 		const bank = good();
 		const q = bank.find((q) => q.id === 'pri-025') as Record<string, unknown>;
-		q.answer = { ...(q.answer as Numeric), value: 1.02 };
+		q.answer = { ...(q.answer as Numeric), value: 1.7 };
 		expect(numericMismatches(bank as Question[])).toEqual([expect.stringMatching(/^pri-025:/)]);
 		const bank2 = good();
 		(bank2.find((q) => q.id === 'pri-025') as Record<string, unknown>).id = 'pri-999';
