@@ -14,7 +14,7 @@ export const transitionAreaGenerator: Generator = {
 	ranges: {
 		smallDiameterMm: { min: 100, max: 225, basis: 'small side of the common concentric transitions (common practice)' },
 		largeDiameterMm: { min: 150, max: 300, basis: 'large side of the common concentric transitions (common practice)' },
-		taperLengthMm: { min: 100, max: 300, basis: 'reducer and taper lengths met in DN100-300 (common practice)' }
+		taperLengthMm: { min: 50, max: 300, basis: 'reducer and taper lengths met in DN100-300, from short reducers of about 50 mm to 300 mm tapers (common practice)' }
 	},
 	create(rng) {
 		const [smallDiameterMm, largeDiameterMm] = rng.pick(TRANSITIONS_MM);
