@@ -50,19 +50,19 @@ test('a trainee opens a course, reads a lesson, uses its calculator, marks it do
 	await expect(page.getByRole('heading', { level: 2, name: 'What the certificate proves' })).toBeVisible();
 	const before = await lessonsDone(page, 'Point-repair installer');
 
-	await page.getByRole('link', { name: /^5 Resin quantity/ }).click();
+	await page.getByRole('link', { name: /^7 Resin quantity/ }).click();
 	await expect(page).toHaveURL(`${COURSE}/resin-quantity`);
 	await expect(page.getByRole('heading', { level: 1, name: 'Resin quantity' })).toBeVisible();
 	await expect(page.getByText('11 min read')).toBeVisible();
 
 	// The lesson's calculator starts from its worked example: DN150, 600 mm, 3 plies of
-	// 1000 g/m², ratio 1.2, 15 % waste = 1.17 kg; twice the length, twice the resin (hand-worked).
+	// 1000 g/m², ratio 2.0, 15 % waste = 1.95 kg; twice the length, twice the resin (hand-worked).
 	const calculator = page.locator('[data-calculator="resin-quantity"]').first();
 	await expect(calculator).toHaveAttribute('data-live', 'true');
 	const withWaste = calculator.locator('[data-result="resinWithWasteKg"]');
-	await expect(withWaste).toHaveText('1.17 kg');
+	await expect(withWaste).toHaveText('1.95 kg');
 	await calculator.getByLabel(/Patch length/).fill('1200');
-	await expect(withWaste).toHaveText('2.34 kg');
+	await expect(withWaste).toHaveText('3.90 kg');
 
 	await page.getByRole('button', { name: 'Mark as done' }).click();
 	await expect(page.getByRole('status').filter({ hasText: 'You marked this lesson as done.' })).toBeVisible();

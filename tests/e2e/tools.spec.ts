@@ -13,16 +13,16 @@ test.describe('resin quantity calculator', () => {
 		await expect(page.getByRole('heading', { level: 1, name: 'Resin quantity' })).toBeVisible();
 
 		const withWaste = page.locator('[data-result="resinWithWasteKg"]');
-		// DN150, 600 mm, 3 plies of 1000 g/m², ratio 1.2, 15 % waste: 1.17 kg (hand-worked).
+		// DN150, 600 mm, 3 plies of 1000 g/m², ratio 2.0, 15 % waste: 1.95 kg (hand-worked).
 		await page.getByLabel(/Pipe internal diameter/).fill('150');
 		await page.getByLabel(/Patch length/).fill('600');
-		await expect(withWaste).toHaveText('1.17 kg');
+		await expect(withWaste).toHaveText('1.95 kg');
 		await expect(page.locator('[data-result="matAreaM2"]')).toHaveText('0.848 m²');
 		await expect(page.getByText('Mat area = n × π × D × L = 3 × π × 0.150 m × 0.600 m = 0.848 m²')).toBeVisible();
 
 		// Resin grows linearly with length: twice the patch, twice the resin.
 		await page.getByLabel(/Patch length/).fill('1200');
-		await expect(withWaste).toHaveText('2.34 kg');
+		await expect(withWaste).toHaveText('3.90 kg');
 
 		// An out-of-range value is named at the field, and no stale result is shown.
 		await page.getByLabel(/Pipe internal diameter/).fill('20');
@@ -30,23 +30,23 @@ test.describe('resin quantity calculator', () => {
 		await expect(withWaste).toHaveCount(0);
 
 		await page.getByLabel(/Pipe internal diameter/).fill('150');
-		await expect(withWaste).toHaveText('2.34 kg');
+		await expect(withWaste).toHaveText('3.90 kg');
 	});
 
 	test('switches to imperial units without changing the answer', async ({ page }) => {
 		await openCalculator(page, 'resin-quantity');
 		const withWaste = page.locator('[data-result="resinWithWasteKg"]');
-		await expect(withWaste).toHaveText('1.17 kg');
+		await expect(withWaste).toHaveText('1.95 kg');
 
 		await page.getByRole('button', { name: 'Imperial' }).click();
 		await expect(page.getByRole('button', { name: 'Imperial' })).toHaveAttribute('aria-pressed', 'true');
 		await expect(page.getByLabel(/Pipe internal diameter/)).toHaveValue('5.906');
-		// 1.17056 kg = 2.58 lb (1 lb = 0.45359237 kg).
-		await expect(withWaste).toHaveText('2.58 lb');
+		// 1.95093 kg = 4.30 lb (1 lb = 0.45359237 kg).
+		await expect(withWaste).toHaveText('4.30 lb');
 
 		await page.getByLabel(/Pipe internal diameter/).fill('6');
 		await expect(page.getByLabel(/Pipe internal diameter/)).toHaveValue('6');
-		await expect(withWaste).not.toHaveText('2.58 lb');
+		await expect(withWaste).not.toHaveText('4.30 lb');
 	});
 
 	test('shows the resin caution and links to the lesson', async ({ page }) => {

@@ -9,6 +9,8 @@ import { join } from 'node:path';
 import { add, subtract, unit, type Unit } from 'mathjs';
 import { compile } from 'mdsvex';
 import { describe, expect, it } from 'vitest';
+import { SLOW_CURE_BELOW_C } from '../../src/lib/calc/cure';
+import { generators } from '../../src/lib/practice/index';
 
 const CONTENT = join(process.cwd(), 'content', 'courses');
 
@@ -26,7 +28,11 @@ const COURSES = {
 			'packer-preparation',
 			'placing-and-inflating',
 			'cure-and-witness-cup',
-			'testing-and-records'
+			'testing-and-records',
+			'cleaning-and-flow-control',
+			'resin-families',
+			'laterals-and-patch-layouts',
+			'records-an-inspector-expects'
 		]
 	},
 	'transition-patches': {
@@ -51,7 +57,11 @@ const COURSES = {
 			'hoses-gauges-relief-valves',
 			'confined-spaces-and-gases',
 			'resin-and-fibre-hazards',
-			'traffic-and-site-setup'
+			'traffic-and-site-setup',
+			'jetting-and-root-cutting-hazards',
+			'asbestos-cement-host-pipe',
+			'spills-and-waste',
+			'emergencies-on-the-job'
 		]
 	}
 } as const;
@@ -261,21 +271,27 @@ const RECOMPUTE: Record<string, () => Unit> = {
 	'pri-019': () => unit(380 + 2 * 300, 'mm'),
 	// Mat width around = plies x circumference (+ overlap where stated).
 	'pri-020': () => unit(3 * PI * 150, 'mm'),
-	'pri-021': () => unit(2 * PI * 225 + 40, 'mm'),
+	'pri-021': () => unit(2 * PI * 225 + 50, 'mm'),
 	// ASTM D3034 SDR 35: minimum wall = OD / 35.
 	'pri-024': () => unit(6.275 - (2 * 6.275) / 35, 'inch'),
 	// Resin = glass x ratio x (1 + waste).
-	'pri-025': () => unit(matArea(3, 150, 600) * 1.0 * 1.2 * 1.15, 'kg'),
+	'pri-025': () => unit(matArea(3, 150, 600) * 1.0 * 2.0 * 1.15, 'kg'),
 	'pri-026': () => unit(matArea(4, 150, 400) * 0.6, 'kg'),
-	'pri-027': () => unit(matArea(3, 200, 800) * 1.0 * 1.3 * 1.1, 'kg'),
+	'pri-027': () => unit(matArea(3, 200, 800) * 1.0 * 2.4 * 1.1, 'kg'),
 	// Annulus volume pi/4 (D^2 - (D - 2t)^2) L, written out independently of pi t (D - t) L.
 	'pri-028': () => unit((PI / 4) * (150 ** 2 - (150 - 12) ** 2) * 600, 'mm^3'),
 	'pri-029': () => unit(matArea(2, 300, 1000), 'm^2'),
 	'pri-043': () => waterHead(3.5),
-	'pri-048': () => cureMinutes(100, 22, 12),
+	'pri-048': () => cureMinutes(100, 25, 15),
 	'pri-049': () => cureMinutes(180, 20, 30),
 	'pri-054': () => waterAllowance([[225, 40]], 0.15),
 	'pri-055': () => airTest(6, 200, 1.0),
+	// Stopper thrust from backed-up sewage: p = rho g h over pi D^2 / 4.
+	'pri-061': () => thrust(waterHead(2), 225),
+	// Two patches end to end overlapping 100 mm.
+	'pri-067': () => unit(1000 + 1000 - 100, 'mm'),
+	// EN 1610 with manholes: 0.20 L/m2 over pipe plus the manholes' wetted area.
+	'pri-074': () => add(waterAllowance([[150, 30]], 0.2), unit(11 * 0.2, 'L')),
 
 	'tp-008': () => unit(slant(100, 150, 60), 'mm'),
 	'tp-009': () => taperArea(100, 150, 60),
@@ -316,7 +332,63 @@ const RECOMPUTE: Record<string, () => Unit> = {
 	'pps-022': () => thrust(unit(1.5, 'bar'), 200),
 	'pps-023': () => thrust(unit(1.0, 'bar'), 300),
 	'pps-024': () => thrust(unit(30, 'psi'), 100),
-	'pps-029': () => unit(36, 'psi')
+	'pps-029': () => unit(36, 'psi'),
+	'pps-067': () => thrust(unit(2.0, 'bar'), 150)
+};
+
+/**
+ * The job figures each computed bank item uses, named as the generator for that kind of
+ * problem names them. They are held to the same realistic ranges the generators state
+ * (cure temperatures above the 13 °C below which the lesson says the doubling rule fails).
+ */
+const BANK_INPUTS: Record<string, [generator: string, figures: Record<string, number>]> = {
+	'pri-014': ['mix-ratio', { totalKg: 1.17, ratioA: 100, ratioB: 45 }],
+	'pri-018': ['resin-quantity', { defectMm: 300, lengthMm: 600 }],
+	'pri-019': ['resin-quantity', { defectMm: 380, lengthMm: 980 }],
+	'pri-020': ['mat-size', { diameterMm: 150, plies: 3 }],
+	'pri-021': ['mat-size', { diameterMm: 225, plies: 2, overlapMm: 50 }],
+	'pri-025': ['resin-quantity', { diameterMm: 150, lengthMm: 600, plies: 3, matWeightGm2: 1000, resinGlassRatio: 2, wastePercent: 15 }],
+	'pri-026': ['resin-quantity', { diameterMm: 150, lengthMm: 400, plies: 4, matWeightGm2: 600 }],
+	'pri-027': ['resin-quantity', { diameterMm: 200, lengthMm: 800, plies: 3, matWeightGm2: 1000, resinGlassRatio: 2.4, wastePercent: 10 }],
+	'pri-028': ['laminate-volume', { diameterMm: 150, thicknessMm: 6, lengthMm: 600 }],
+	'pri-029': ['mat-size', { diameterMm: 300, plies: 2, patchLengthMm: 1000 }],
+	'pri-043': ['groundwater-head', { headM: 3.5 }],
+	'pri-048': ['cure-time', { refMinutes: 100, refTempC: 25, tempC: 15 }],
+	'pri-049': ['cure-time', { refMinutes: 180, refTempC: 20, tempC: 30 }],
+	'pri-054': ['water-test', { diameterMm: 225, lengthM: 40, allowanceLPerM2: 0.15 }],
+	'pri-055': ['air-test', { diameterIn: 6, lengthFt: 200, dropPsig: 1 }],
+	'pri-061': ['groundwater-head', { headM: 2 }],
+	'pri-067': ['mat-size', { patchLengthMm: 1000 }],
+	'pri-074': ['water-test', { diameterMm: 150, lengthM: 30, allowanceLPerM2: 0.2, manholeAreaM2: 11 }],
+	'tp-008': ['transition-area', { smallDiameterMm: 100, largeDiameterMm: 150, taperLengthMm: 60 }],
+	'tp-009': ['transition-area', { smallDiameterMm: 100, largeDiameterMm: 150, taperLengthMm: 60 }],
+	'tp-010': ['transition-area', { smallDiameterMm: 150, largeDiameterMm: 225, taperLengthMm: 150 }],
+	'tp-011': ['transition-area', { smallDiameterMm: 100, largeDiameterMm: 150, taperLengthMm: 60 }],
+	'tp-012': ['transition-area', { smallDiameterMm: 100, largeDiameterMm: 150, taperLengthMm: 100 }],
+	'tp-013': ['mat-size', { diameterMm: 225, plies: 3, smallDiameterMm: 150 }],
+	'tp-020': ['groundwater-head', { headM: 2.5 }],
+	'tp-032': ['end-thrust', { diameterMm: 150, pressureBar: 2.5, smallDiameterMm: 100 }],
+	'tp-033': ['end-thrust', { diameterMm: 225, pressureBar: 1.2, smallDiameterMm: 150 }],
+	'tp-045': ['water-test', { diameterMm: 150, lengthM: 10, allowanceLPerM2: 0.15 }],
+	'pps-008': ['groundwater-head', { headM: 2.6, depthM: 3.8 }],
+	'pps-009': ['pressure-window', { groundwaterHeadM: 6, marginBar: 0.5 }],
+	'pps-021': ['end-thrust', { diameterMm: 150, pressureBar: 2.5 }],
+	'pps-022': ['end-thrust', { diameterMm: 200, pressureBar: 1.5 }],
+	'pps-023': ['end-thrust', { diameterMm: 300, pressureBar: 1 }],
+	'pps-024': ['end-thrust', { diameterMm: 100, pressureBar: 2.07 }],
+	'pps-067': ['end-thrust', { diameterMm: 150, pressureBar: 2 }]
+};
+
+/** Computed bank items that are not a generator's kind of job, and why no range applies. */
+const NO_JOB_RANGE: Record<string, string> = {
+	'pri-024': 'a pipe size from ASTM D3034, not a job figure',
+	'tp-039': 'the 5 % lifted-end limit applied to one diameter',
+	'pps-001': 'a unit conversion',
+	'pps-002': 'a unit conversion',
+	'pps-003': 'a unit conversion of a water column',
+	'pps-004': 'a unit conversion in feet of water',
+	'pps-016': 'the hoop-load ratio between two diameters',
+	'pps-029': 'a gauge reading converted to bar'
 };
 
 /**
@@ -371,6 +443,41 @@ describe.each(Object.keys(COURSES) as CourseSlug[])('question bank of %s', (cour
 
 	it('has every numeric answer agreeing with an independent recomputation', () => {
 		expect(numericMismatches(banks[course] as Question[])).toEqual([]);
+	});
+});
+
+describe('computed bank items use realistic job figures', () => {
+	const all = Object.values(banks).flat() as Question[];
+
+	it('names the figures of every computed item, or says why none apply', () => {
+		const numeric = all.filter((q) => q.type === 'numeric').map((q) => q.id);
+		expect(numeric.filter((id) => !(id in BANK_INPUTS) && !(id in NO_JOB_RANGE))).toEqual([]);
+		expect(Object.keys(BANK_INPUTS).filter((id) => !numeric.includes(id))).toEqual([]);
+	});
+
+	it('keeps every figure inside the range its generator states as realistic', () => {
+		const out: string[] = [];
+		for (const [id, [generator, figures]] of Object.entries(BANK_INPUTS)) {
+			const ranges = generators[generator].ranges;
+			for (const [name, value] of Object.entries(figures)) {
+				const range = ranges[name];
+				if (!range) out.push(`${id}: ${generator} states no range for ${name}`);
+				else if (value < range.min || value > range.max) out.push(`${id}: ${name} = ${value} outside ${range.min}-${range.max} (${range.basis})`);
+			}
+		}
+		expect(out).toEqual([]);
+	});
+
+	it('keeps cure items above the temperature where the lesson says the doubling rule fails', () => {
+		for (const [id, [generator, figures]] of Object.entries(BANK_INPUTS)) {
+			if (generator === 'cure-time') expect(figures.tempC, id).toBeGreaterThan(SLOW_CURE_BELOW_C);
+		}
+	});
+
+	it('catches a figure out of range (the check can fail)', () => {
+		const ranges = generators['cure-time'].ranges;
+		expect(12 >= ranges.tempC.min).toBe(false);
+		expect(generators['resin-quantity'].ranges.defectMm.max).toBeLessThan(700);
 	});
 });
 
@@ -445,7 +552,7 @@ describe('the validator rejects broken banks', () => {
 	it('catches a numeric answer that disagrees with its recomputation', () => {
 		const bank = good();
 		const q = bank.find((q) => q.id === 'pri-025') as Record<string, unknown>;
-		q.answer = { ...(q.answer as Numeric), value: 1.02 };
+		q.answer = { ...(q.answer as Numeric), value: 1.7 };
 		expect(numericMismatches(bank as Question[])).toEqual([expect.stringMatching(/^pri-025:/)]);
 		const bank2 = good();
 		(bank2.find((q) => q.id === 'pri-025') as Record<string, unknown>).id = 'pri-999';

@@ -131,7 +131,8 @@ const commonInputs = {
 		default: 125000,
 		min: 10000,
 		max: 2000000,
-		step: 1000
+		step: 1000,
+		help: 'Default: half the 250 000 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value. Use the maker’s tested long-term figure.'
 	},
 	safetyFactor: {
 		name: 'safetyFactor',
@@ -176,7 +177,7 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 			max: 20000,
 			step: 50,
 			optional: true,
-			help: 'For the oval-pipe bending check; half of the 4500 psi short-term minimum is a common choice.'
+			help: 'For the oval-pipe bending check. Default: half the 4500 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.'
 		}
 	],
 	results: [
@@ -191,7 +192,7 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 	cautions: [DESIGN_CAUTION],
 	compute(i) {
 		const r = f1216PartialDetail(i);
-		const w = new Worksheet([SOURCES.f1216X11, SOURCES.f1216X12, SOURCES.f1216Dr100]);
+		const w = new Worksheet([SOURCES.f1216X11, SOURCES.f1216X12, SOURCES.f1216Dr100, SOURCES.f1216Table1]);
 		w.step(
 			`C = ((1 − q) ÷ (1 + q)²)³ = ((1 − ${given(i.ovalityPercent / 100)}) ÷ (1 + ${given(i.ovalityPercent / 100)})²)³ = ${num(r.ovalityFactorC)}`
 		);
@@ -296,7 +297,7 @@ export const f1216FullCalculator: CalculatorDef<F1216FullInputs> = {
 			max: 3000000,
 			step: 1000,
 			optional: true,
-			help: 'For the minimum-stiffness check (X1.4).'
+			help: 'For the minimum-stiffness check (X1.4). Default: the 250 000 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.'
 		},
 		commonInputs.safetyFactor
 	],
@@ -320,7 +321,7 @@ export const f1216FullCalculator: CalculatorDef<F1216FullInputs> = {
 	},
 	compute(i) {
 		const r = f1216Full(i);
-		const w = new Worksheet([SOURCES.f1216X13, SOURCES.f1216X14]);
+		const w = new Worksheet([SOURCES.f1216X13, SOURCES.f1216X14, SOURCES.f1216Table1]);
 		w.step(`C = ((1 − q) ÷ (1 + q)²)³ with q = ${given(i.ovalityPercent / 100)}: C = ${num(r.ovalityFactorC)}`);
 		w.step(
 			`R_w = 1 − 0.33 × H_w ÷ H = 1 − 0.33 × ${given(i.groundwaterHeightFt, 'ft')} ÷ ${given(i.soilHeightFt, 'ft')} = ${num(r.waterBuoyancyFactor)} (not below 0.67)`

@@ -16,7 +16,7 @@ const FIXED_INPUTS: Record<string, string[]> = {
 	'f1216-partial': ['diameterIn', 'pressurePsi', 'ovalityPercent', 'longTermModulusPsi', 'enhancementK', 'poisson', 'safetyFactor'],
 	'f1216-full': ['diameterIn', 'ovalityPercent', 'longTermModulusPsi', 'shortTermModulusPsi', 'safetyFactor'],
 	'air-test': ['diameterIn', 'lengthFt', 'dropPsig'],
-	'water-test': ['diameterMm', 'lengthM', 'allowanceLPerM2']
+	'water-test': ['diameterMm', 'lengthM', 'allowanceLPerM2', 'manholeAreaM2']
 };
 
 const FIXED_RESULTS: Record<string, string[]> = {
@@ -121,7 +121,7 @@ describe('runCalculation validation', () => {
 	});
 
 	it('accepts numeric strings as forms send them', () => {
-		const out = runCalculation('resin-quantity', { ...resin, diameterMm: ' 150 ', lengthMm: '6e2' });
+		const out = runCalculation('resin-quantity', { ...resin, diameterMm: ' 150 ', lengthMm: '6e2', resinGlassRatio: '1.2' });
 		expect(out.ok && out.result.resinWithWasteKg).toBeCloseTo(1.17, 2);
 	});
 

@@ -45,7 +45,7 @@ describe('resin-quantity', () => {
 		const out = ok('resin-quantity', dn150);
 		expect(out.steps[0]).toBe('Mat area = n × π × D × L = 3 × π × 0.150 m × 0.600 m = 0.848 m²');
 		expect(out.steps.at(-1)).toBe('With waste = 1.02 kg × (1 + 15 %) = 1.17 kg');
-		expect(out.warnings).toEqual([]);
+		expect(ok('resin-quantity', { ...dn150, resinGlassRatio: 2.3 }).warnings).toEqual([]);
 	});
 
 	it('warns about a waste allowance below the usual 10 % (common practice)', () => {
@@ -53,9 +53,16 @@ describe('resin-quantity', () => {
 		expect(out.alerts.map((a) => a.title)).toContain('Small waste allowance');
 	});
 
-	it('warns about a ratio outside hand lay-up ranges (handbook ranges, from memory)', () => {
-		const out = ok('resin-quantity', { ...dn150, resinGlassRatio: 3 });
-		expect(out.alerts.map((a) => a.title)).toContain('Unusual resin to glass ratio');
+	it('warns about a ratio outside hand lay-up ranges: chopped mat 25–35 % glass by weight is 1.9–3 : 1 (composites handbook ranges, from memory)', () => {
+		// 35 % glass -> 65/35 = 1.86 resin per glass; 25 % glass -> 75/25 = 3.
+		expect(65 / 35).toBeCloseTo(1.86, 2);
+		expect(75 / 25).toBe(3);
+		const titles = (r: number) => ok('resin-quantity', { ...dn150, resinGlassRatio: r }).alerts.map((a) => a.title);
+		expect(titles(3.2)).toContain('Unusual resin to glass ratio');
+		expect(titles(0.8)).toContain('Unusual resin to glass ratio');
+		expect(titles(1.2)).toEqual(['Lean for chopped mat']);
+		expect(titles(1.9)).toEqual([]);
+		expect(titles(3)).toEqual([]);
 	});
 
 	it('fills the waste allowance with its 15 % default when left out', () => {

@@ -17,6 +17,15 @@ const PLIES: InputSpec = { name: 'plies', label: 'Plies of mat', unit: '', defau
 
 // ---------------------------------------------------------------- resin quantity
 
+/**
+ * Resin to glass by weight for hand lay-up (composites handbook ranges, from memory):
+ * woven cloth 1.0–1.5; well-consolidated mat 1.5–1.9; chopped strand mat 25–35 % glass,
+ * i.e. about 1.9–3 : 1. Outside 1.0–3.0 the calculator warns; below 1.9 it says lean for chopped mat.
+ */
+export const RESIN_GLASS_USUAL_MIN = 1;
+export const RESIN_GLASS_CHOPPED_MAT_MIN = 1.9;
+export const RESIN_GLASS_USUAL_MAX = 3;
+
 export type ResinQuantityInputs = {
 	diameterMm: number;
 	lengthMm: number;
@@ -53,11 +62,11 @@ export const resinQuantityCalculator: CalculatorDef<ResinQuantityInputs> = {
 			name: 'resinGlassRatio',
 			label: 'Resin to glass ratio by weight',
 			unit: '',
-			default: 1.2,
+			default: 2,
 			min: 0.5,
 			max: 4,
 			step: 0.1,
-			help: 'From the mat or resin data sheet: kilograms of resin per kilogram of glass.'
+			help: 'From the mat or resin data sheet: kilograms of resin per kilogram of glass (chopped mat by hand about 1.9–3).'
 		},
 		{ name: 'wastePercent', label: 'Waste allowance', unit: '%', default: 15, min: 0, max: 100, step: 1, optional: true }
 	],
@@ -81,11 +90,17 @@ export const resinQuantityCalculator: CalculatorDef<ResinQuantityInputs> = {
 		w.step(
 			`With waste = ${qty(r.resinKg, 'kg')} × (1 + ${given(i.wastePercent, '%')}) = ${qty(r.resinWithWasteKg, 'kg')}`
 		);
-		if (i.resinGlassRatio < 1 || i.resinGlassRatio > 2.2) {
+		if (i.resinGlassRatio < RESIN_GLASS_USUAL_MIN || i.resinGlassRatio > RESIN_GLASS_USUAL_MAX) {
 			w.warn(
 				'caution',
 				'Unusual resin to glass ratio',
-				'Hand lay-up usually takes 1.0–1.5 (woven cloth) to 1.4–2.2 (chopped mat) by weight. Check the mat and resin data sheets.'
+				'Chopped mat by hand usually takes about 1.9–3 kg of resin per kg of glass (25–35 % glass), a well-consolidated mat about 1.5–1.9, woven cloth 1.0–1.5. Check the mat and resin data sheets.'
+			);
+		} else if (i.resinGlassRatio < RESIN_GLASS_CHOPPED_MAT_MIN) {
+			w.warn(
+				'caution',
+				'Lean for chopped mat',
+				'Below about 1.9 is a consolidated-mat or woven-cloth figure. For chopped mat wetted out by hand it can leave dry fibre: check the mat data sheet.'
 			);
 		}
 		if (i.wastePercent < 10) {

@@ -8,7 +8,7 @@ export const SOURCES = {
 	geometryFrustum:
 		'Geometry: the side of a cone frustum has area π × (r₁ + r₂) × s; a cone unrolls into a flat ring sector',
 	resinRatio:
-		'Resin to glass weight ratios for hand lay-up: handbook ranges (chopped mat 1.4–2.2, woven cloth 1.0–1.5, from memory)',
+		'Resin to glass weight ratios for hand lay-up: composites handbook ranges, from memory (chopped strand mat 25–35 % glass by weight, about 1.9–3 : 1; well-consolidated mat about 1.5–1.9; woven cloth 1.0–1.5); the mat or resin data sheet comes first',
 	wasteAllowance: 'Waste allowance of 10–20 %: common practice',
 	matWrap: 'Mat cut width = plies × circumference + overlap; patch = defect + at least 150 mm each end: common practice',
 	mixRatio: 'Splitting a mix by ratio and converting volume to mass with density: arithmetic; the resin data sheet gives the ratio',
@@ -29,7 +29,9 @@ export const SOURCES = {
 		'ASTM F1216, Appendix X1, Eq. X1.3: fully deteriorated gravity pipe under water, soil and live load',
 	f1216X14: 'ASTM F1216, Appendix X1, Eq. X1.4: minimum stiffness E × I / D³ ≥ 0.093 psi',
 	f1417:
-		'ASTM F1417, low-pressure air test of plastic gravity sewer lines: T = 0.085 × D × K / Q, K = 0.000419 × D × L (not below 1), Q = 0.0015 ft³/min per ft²',
+		'ASTM F1417, low-pressure air test of plastic gravity sewer lines: T = 0.085 × D × K / Q, K = 0.000419 × D × L (not below 1), Q = 0.0015 ft³/min per ft²; clay lines: ASTM C828, concrete lines: ASTM C924',
 	en1610:
-		'EN 1610, clause 13.3, water test (method W): 30 min test, water added not above 0.15 L/m² of wetted surface for pipelines (0.20 with manholes, 0.40 for manholes alone)'
+		'EN 1610, clause 13.3, water test (method W): 30 min test, water added not above 0.15 L/m² of wetted internal surface for pipelines (0.20 for pipelines with their manholes, the manholes’ wetted surface counted; 0.40 for manholes alone)',
+	f1216Table1:
+		'ASTM F1216, Table 1: minimum short-term properties of felt-tube CIPP, flexural strength 4500 psi and flexural modulus 250 000 psi; glass-mat laminates are usually much stiffer and stronger, so use the maker’s tested values'
 } as const;

@@ -30,15 +30,21 @@ export function airTestSeconds(i: AirTestInputs): number {
 	return secondsPerPsig * i.dropPsig;
 }
 
-function minutesAndSeconds(seconds: number): string {
-	const whole = Math.ceil(seconds);
+/**
+ * The time as the F1417 minimum-time table prints it: the formula's seconds to the nearest
+ * second, as min:s. Rounding to the nearest second reproduces the table's rows (4 in 1:53
+ * from 113.3 s, 8 in 3:47 from 226.7 s, 10 in 4:43 from 283.3 s); dropping the fraction or
+ * rounding up would not (table rows from memory).
+ */
+export function minutesAndSeconds(seconds: number): string {
+	const whole = Math.round(seconds);
 	return `${Math.floor(whole / 60)}:${String(whole % 60).padStart(2, '0')}`;
 }
 
 export const airTestCalculator: CalculatorDef<AirTestInputs> = {
 	id: 'air-test',
 	title: 'Low-pressure air test time',
-	summary: 'ASTM F1417 minimum time for the test pressure to drop, for a gravity line of one diameter.',
+	summary: 'ASTM F1417 minimum time for the test pressure to drop, for a plastic gravity line of one diameter.',
 	lesson: '/courses/point-repair-installer/testing-and-records',
 	system: 'imperial',
 	inputs: [
@@ -65,8 +71,8 @@ export const airTestCalculator: CalculatorDef<AirTestInputs> = {
 		TEST_PLUG_CAUTION,
 		{
 			level: 'warning',
-			title: 'Never above 5 psig',
-			text: 'Test at 4.0 psig above any groundwater back-pressure, let it settle at least 2 minutes, time the drop from 3.5 psig, and never exceed 5 psig.'
+			title: 'Keep the test pressure low',
+			text: 'F1417 pressurises to 4.0 psig above any groundwater back-pressure, lets it settle at least 2 minutes and times the drop from 3.5 psig. Crews commonly set the regulator or relief so the line cannot go much above 5 psig (common practice, not a figure from F1417); follow the standard’s own safety section and the plug maker’s ratings. F1417 is for plastic lines: clay lines are air tested to ASTM C828, concrete lines to ASTM C924.'
 		}
 	],
 	compute(i) {
@@ -82,19 +88,32 @@ export const airTestCalculator: CalculatorDef<AirTestInputs> = {
 		if (i.dropPsig !== 1) {
 			w.step(`For a ${given(i.dropPsig)} psig drop: × ${given(i.dropPsig)} = ${qty(minimumSeconds, 's')}`);
 		}
-		w.step(`Minimum time ${minutesAndSeconds(minimumSeconds)} (min:s)`);
+		w.step(`Minimum time ${minutesAndSeconds(minimumSeconds)} (min:s, to the nearest second as the F1417 table lists it)`);
 		return w.done({ minimumSeconds, minimumMinutes: minimumSeconds / 60, kFactor: K });
 	}
 };
 
 // ---------------------------------------------------------------- water test
 
-export type WaterTestInputs = { diameterMm: number; lengthM: number; allowanceLPerM2: number };
+export type WaterTestInputs = { diameterMm: number; lengthM: number; allowanceLPerM2: number; manholeAreaM2: number };
 
-/** EN 1610 method W: water added in 30 min must not exceed allowance × wetted internal area. */
+/** EN 1610 allowances, L/m² of wetted internal surface in 30 min: pipeline alone, pipeline with its manholes. */
+export const EN1610_PIPELINE_L_PER_M2 = 0.15;
+export const EN1610_WITH_MANHOLES_L_PER_M2 = 0.2;
+
+/**
+ * EN 1610 method W: water added in 30 min must not exceed allowance × the whole wetted
+ * internal surface tested, the manholes' walls and bases included when they are in the test.
+ */
 export function waterTest(i: WaterTestInputs) {
-	const wettedAreaM2 = Math.PI * (i.diameterMm / 1000) * i.lengthM;
-	return { wettedAreaM2, allowedL: wettedAreaM2 * i.allowanceLPerM2 };
+	const pipeAreaM2 = Math.PI * (i.diameterMm / 1000) * i.lengthM;
+	const wettedAreaM2 = pipeAreaM2 + i.manholeAreaM2;
+	return { pipeAreaM2, wettedAreaM2, allowedL: wettedAreaM2 * i.allowanceLPerM2 };
+}
+
+/** Wetted wall and base of one round manhole of internal diameter `diameterM` filled `depthM` deep (geometry). */
+export function manholeWettedAreaM2(diameterM: number, depthM: number): number {
+	return Math.PI * diameterM * depthM + (Math.PI * diameterM ** 2) / 4;
 }
 
 export const waterTestCalculator: CalculatorDef<WaterTestInputs> = {
@@ -112,14 +131,26 @@ export const waterTestCalculator: CalculatorDef<WaterTestInputs> = {
 			unit: 'L/m2',
 			default: 0.15,
 			min: 0.15,
-			max: 0.4,
+			max: 0.2,
 			optional: true,
-			choices: [0.15, 0.2, 0.4],
-			choiceLabels: ['0.15 L/m², pipeline', '0.20 L/m², pipeline with manholes', '0.40 L/m², manholes alone']
+			choices: [0.15, 0.2],
+			choiceLabels: ['0.15 L/m², pipeline alone', '0.20 L/m², pipeline with its manholes']
+		},
+		{
+			name: 'manholeAreaM2',
+			label: 'Wetted area of the manholes in the test',
+			unit: 'm2',
+			default: 0,
+			min: 0,
+			max: 500,
+			step: 0.1,
+			optional: true,
+			help: 'Walls and base of every manhole up to the test water level; 0 when only the pipeline is tested.'
 		}
 	],
 	results: [
-		{ name: 'wettedAreaM2', label: 'Wetted internal area', unit: 'm2' },
+		{ name: 'pipeAreaM2', label: 'Wetted area of the pipe', unit: 'm2' },
+		{ name: 'wettedAreaM2', label: 'Wetted internal area tested', unit: 'm2' },
 		{ name: 'allowedL', label: 'Water that may be added in 30 min', unit: 'L' }
 	],
 	cautions: [
@@ -130,12 +161,22 @@ export const waterTestCalculator: CalculatorDef<WaterTestInputs> = {
 			text: 'EN 1610 tests at 10 to 50 kPa at the top of the pipe after filling and an hour of conditioning. A leaking patch is never accepted, whatever the allowance.'
 		}
 	],
+	check(i) {
+		if (i.allowanceLPerM2 === EN1610_WITH_MANHOLES_L_PER_M2 && i.manholeAreaM2 === 0)
+			return { manholeAreaM2: 'With the manholes in the test, enter their wetted area (walls and base)' };
+		if (i.allowanceLPerM2 === EN1610_PIPELINE_L_PER_M2 && i.manholeAreaM2 > 0)
+			return { allowanceLPerM2: 'With manholes in the test the allowance is 0.20 L/m²' };
+		return {};
+	},
 	compute(i) {
 		const r = waterTest(i);
 		const w = new Worksheet([SOURCES.en1610]);
 		w.step(
-			`Wetted area = π × D × L = π × ${qty(i.diameterMm / 1000, 'm')} × ${given(i.lengthM, 'm')} = ${qty(r.wettedAreaM2, 'm2')}`
+			`Pipe wetted area = π × D × L = π × ${qty(i.diameterMm / 1000, 'm')} × ${given(i.lengthM, 'm')} = ${qty(r.pipeAreaM2, 'm2')}`
 		);
+		if (i.manholeAreaM2 > 0) {
+			w.step(`Area tested = pipe + manholes = ${qty(r.pipeAreaM2, 'm2')} + ${given(i.manholeAreaM2, 'm2')} = ${qty(r.wettedAreaM2, 'm2')}`);
+		}
 		w.step(
 			`Allowed = area × allowance = ${qty(r.wettedAreaM2, 'm2')} × ${given(i.allowanceLPerM2, 'L/m2')} = ${qty(r.allowedL, 'L')} in 30 min`
 		);

@@ -3,14 +3,19 @@
  * stated ranges, the expected answer equal to the calculation library's for the same inputs,
  * accepted in other units, wrong answers refused, usual mistakes recognised.
  */
+import { readFileSync } from 'node:fs';
 import { unit as mathUnit } from 'mathjs';
 import { describe, expect, it } from 'vitest';
+import { SLOW_CURE_BELOW_C } from '../calc/cure';
 import { calculators, parseInputs, runCalculation } from '../calc/index';
+import { RESIN_GLASS_CHOPPED_MAT_MIN, RESIN_GLASS_USUAL_MAX } from '../calc/materials';
+import { RATINGS } from './generators/pressure';
 import { convert, quantityOf } from '../calc/units';
 import { unitChoices } from './grading';
 import { checkAnswer, expectedAmount, expectedChoice, generateProblem, generators, getGenerator, listGenerators, mistakeValue, publicProblem, type Problem } from './index';
 
 const SEEDS = Array.from({ length: 400 }, (_, i) => (i * 2654435761) >>> 0);
+const MANY_SEEDS = Array.from({ length: 1500 }, (_, i) => (i * 2246822519 + 7) >>> 0);
 
 /** The generators a course may list, by calculator id; f1216-full has none (too many inputs for a drill). */
 const REQUIRED = [
@@ -200,28 +205,28 @@ describe('problem checks against hand-worked and published values', () => {
 		const water = generateProblem('water-test', 1);
 		const p: Problem = { ...water, inputs: { diameterMm: 150, lengthM: 30, allowanceLPerM2: 0.15 }, asks: 'allowedL', unit: 'L' };
 		expect(checkAnswer(p, { value: 2.1, unit: 'L' }).correct).toBe(true);
-		expect(checkAnswer(p, { value: 2.83, unit: 'L' }).hint).toMatch(/0.20 L\/m²/);
+		expect(checkAnswer(p, { value: 2.83, unit: 'L' }).correct).toBe(false);
+	});
+
+	it('water test with two manholes: 0.20 L/m² of pipe plus manholes (EN 1610 13.3; manhole area by geometry)', () => {
+		const water = generateProblem('water-test', 1);
+		// Two 1.0 m manholes filled 1.5 m deep: 2 × (π × 1.0 × 1.5 + π × 1.0² / 4) = 11.0 m².
+		const manholes = 2 * (Math.PI * 1.5 + Math.PI / 4);
+		const p: Problem = { ...water, inputs: { diameterMm: 150, lengthM: 30, allowanceLPerM2: 0.2, manholeAreaM2: 11 }, asks: 'allowedL', unit: 'L' };
+		expect(manholes).toBeCloseTo(11, 1);
+		expect(checkAnswer(p, { value: (14.137 + 11) * 0.2, unit: 'L' }).correct).toBe(true);
+		// 0.20 × the pipe alone (2.83 L) forgets the manholes.
+		expect(checkAnswer(p, { value: 2.83, unit: 'L' }).correct).toBe(false);
+		expect(checkAnswer(p, { value: 14.137 * 0.15, unit: 'L' }).hint).toMatch(/manholes are part of the test/);
 	});
 });
 
 describe('is this pressure safe?', () => {
-	const decisions = SEEDS.map((s) => generateProblem('pressure-window', s)).filter((p) => p.kind === 'choice');
+	const decisions = MANY_SEEDS.map((s) => generateProblem('pressure-window', s)).filter((p) => p.kind === 'choice');
 
 	it('draws every kind of decision, the unsafe ones included', () => {
 		const kinds = new Set(decisions.map((p) => expectedChoice(p).value));
-		expect([...kinds].sort()).toEqual(['inside', 'no-window', 'too-high', 'too-low']);
-	});
-
-	it('decides as an independent reckoning does: head in bar (mathjs) plus margin, against the rating', () => {
-		for (const p of decisions) {
-			const min = mathUnit(p.inputs.groundwaterHeadM * 1000 * 9.80665, 'Pa').toNumber('bar') + p.inputs.marginBar;
-			const max = p.inputs.ratedMaxBar;
-			const planned = p.given!.proposedBar;
-			const want = min > max ? 'no-window' : planned < min ? 'too-low' : planned > max ? 'too-high' : 'inside';
-			expect(expectedChoice(p).value, p.prompt).toBe(want);
-			// No trick questions: the plan is clear of the window's edges.
-			if (want !== 'no-window') expect(Math.min(Math.abs(planned - min), Math.abs(planned - max))).toBeGreaterThanOrEqual(0.05 - 1e-9);
-		}
+		expect([...kinds].sort()).toEqual(['inside', 'no-window', 'too-high', 'too-low', 'window']);
 	});
 
 	it('explains a wrong decision and refuses an empty or unknown choice', () => {
@@ -232,5 +237,114 @@ describe('is this pressure safe?', () => {
 		expect(check.steps.at(-1)).toMatch(/Planned/);
 		expect(checkAnswer(p, {}).outcome).toBe('no-choice');
 		expect(checkAnswer(p, { choice: 'maybe' }).outcome).toBe('unknown-choice');
+		const none = decisions.find((q) => expectedChoice(q).value === 'no-window')!;
+		expect(checkAnswer(none, { choice: 'window' }).hint).toMatch(/more than the packer/);
+	});
+});
+
+/**
+ * Each choice of a decision item, judged on its own against an independent reckoning of the
+ * window: the groundwater head in bar by mathjs (1 m of water = 9.80665 kPa, conventional)
+ * plus the margin, against the maker's rating (common practice). A choice is defensible when
+ * what it says is true; every item must have exactly one.
+ */
+function defensible(p: Problem, choice: string): boolean {
+	const min = mathUnit(p.inputs.groundwaterHeadM * 1000 * 9.80665, 'Pa').toNumber('bar') + p.inputs.marginBar;
+	const max = p.inputs.ratedMaxBar;
+	const planned = p.given?.proposedBar;
+	const statements: Record<string, () => boolean> = {
+		'too-low': () => planned !== undefined && planned < min,
+		inside: () => planned !== undefined && planned >= min && planned <= max,
+		'too-high': () => planned !== undefined && planned > max,
+		window: () => min <= max,
+		'no-window': () => min > max
+	};
+	if (!Object.hasOwn(statements, choice)) throw new Error(`No independent reckoning for choice "${choice}" of ${p.generator}`);
+	return statements[choice]();
+}
+
+describe('every multiple-choice item has exactly one defensible answer', () => {
+	const choiceItems = Object.keys(generators).flatMap((id) => MANY_SEEDS.map((s) => generateProblem(id, s)).filter((p) => p.kind === 'choice'));
+
+	it('finds choice items to check', () => {
+		expect(choiceItems.length).toBeGreaterThan(300);
+	});
+
+	it('tries every option of every generated item against the calculation: exactly one holds, and it is the key', () => {
+		for (const p of choiceItems) {
+			const right = p.choices!.filter((c) => defensible(p, c.value)).map((c) => c.value);
+			expect(right, p.prompt).toEqual([expectedChoice(p).value]);
+		}
+	});
+
+	it('keeps a planned pressure clear of the window edges (no trick questions)', () => {
+		for (const p of choiceItems.filter((q) => q.given?.proposedBar !== undefined)) {
+			const min = mathUnit(p.inputs.groundwaterHeadM * 1000 * 9.80665, 'Pa').toNumber('bar') + p.inputs.marginBar;
+			expect(Math.min(Math.abs(p.given!.proposedBar - min), Math.abs(p.given!.proposedBar - p.inputs.ratedMaxBar)), p.prompt).toBeGreaterThanOrEqual(0.05 - 1e-9);
+		}
+	});
+
+	it('catches an item with two right answers (the check itself can fail)', () => {
+		const p = choiceItems.find((q) => expectedChoice(q).value === 'too-low')!;
+		const both: Problem = { ...p, choices: [...p.choices!, { value: 'no-window', label: 'No pressure is safe' }], inputs: { ...p.inputs, ratedMaxBar: 0.1 } };
+		expect(both.choices!.filter((c) => defensible(both, c.value)).length).toBeGreaterThan(1);
+	});
+});
+
+describe('generated inputs stay within each generator’s stated realistic ranges', () => {
+	for (const [id, gen] of Object.entries(generators)) {
+		it(`${id}: every input and stated figure has a range with its basis, inside the calculator's limits, and every draw stays in it`, () => {
+			const def = calculators[gen.calculator];
+			for (const [name, range] of Object.entries(gen.ranges)) {
+				expect(range.basis.length, `${id}.${name} basis`).toBeGreaterThan(10);
+				expect(range.min, `${id}.${name}`).toBeLessThanOrEqual(range.max);
+				const spec = def.inputs.find((s) => s.name === name);
+				if (spec) {
+					expect(range.min, `${id}.${name}`).toBeGreaterThanOrEqual(spec.min);
+					expect(range.max, `${id}.${name}`).toBeLessThanOrEqual(spec.max);
+				}
+			}
+			for (const seed of MANY_SEEDS) {
+				const p = generateProblem(id, seed);
+				for (const [name, value] of [...Object.entries(p.inputs), ...Object.entries(p.given ?? {})]) {
+					const range = gen.ranges[name];
+					expect(range, `${id}: no stated range for ${name}`).toBeDefined();
+					expect(value, `${name} in ${p.prompt}`).toBeGreaterThanOrEqual(range.min - 1e-9);
+					expect(value, `${name} in ${p.prompt}`).toBeLessThanOrEqual(range.max + 1e-9);
+				}
+			}
+		});
+	}
+
+	it('cure problems stay above the temperature below which the lesson says the doubling rule fails', () => {
+		expect(generators['cure-time'].ranges.tempC.min).toBeGreaterThan(SLOW_CURE_BELOW_C);
+		for (const seed of MANY_SEEDS) {
+			const p = generateProblem('cure-time', seed);
+			expect(p.inputs.tempC, p.prompt).toBeGreaterThan(SLOW_CURE_BELOW_C);
+			expect(runCalculation('cure-time', p.inputs)).toMatchObject({ ok: true, warnings: [] });
+		}
+	});
+
+	it('resin ratios are chopped-mat hand lay-up figures, inside the calculator’s no-warning band', () => {
+		for (const seed of MANY_SEEDS) {
+			const p = generateProblem('resin-quantity', seed);
+			expect(p.inputs.resinGlassRatio).toBeGreaterThanOrEqual(RESIN_GLASS_CHOPPED_MAT_MIN);
+			expect(p.inputs.resinGlassRatio).toBeLessThanOrEqual(RESIN_GLASS_USUAL_MAX);
+		}
+	});
+
+	it('packer ratings agree with the example table the packer-rating lesson teaches (225 mm: 2.0 bar)', () => {
+		expect(Object.fromEntries(RATINGS)).toMatchObject({ 100: 2.5, 150: 2.5, 200: 2, 225: 2, 250: 1.5, 300: 1.5 });
+		const lesson = readFileSync('content/courses/packer-pressure-safety/lessons/packer-rated-maximum.md', 'utf8');
+		expect(lesson).toMatch(/\| 151 to 225 mm \| 2\.0 bar \|/);
+		expect(lesson).toMatch(/\| 226 to 300 mm \| 1\.5 bar \|/);
+	});
+
+	it('laterals and drains come in 100-150 mm, and defects stay point-repair sized', () => {
+		for (const seed of MANY_SEEDS) {
+			const p = generateProblem('resin-quantity', seed);
+			if (/lateral|drain/.test(p.prompt)) expect(p.inputs.diameterMm, p.prompt).toBeLessThanOrEqual(150);
+			if (p.given?.defectMm !== undefined) expect(p.given.defectMm).toBeLessThanOrEqual(600);
+		}
 	});
 });

@@ -48,6 +48,14 @@ export interface Mistake {
 	asks?: string;
 }
 
+/** The realistic range a generator draws one input (or one stated figure) from, and why. */
+export interface DrawRange {
+	min: number;
+	max: number;
+	/** Where the range comes from: what crews meet, or where the lesson says the rule holds. */
+	basis: string;
+}
+
 export interface Generator {
 	/** The same as the calculator id, so a course test lists generators by calculator. */
 	id: string;
@@ -58,6 +66,11 @@ export interface Generator {
 	level: 'foundation' | 'advanced';
 	/** Suited to the quantity: metering resin is held to 2 %, rule-of-thumb cure times to 3 %. */
 	tolerancePercent: number;
+	/**
+	 * Every input and every stated figure (`given`) this generator draws, with its realistic
+	 * range and the basis for it. Tests hold every drawn problem to these ranges.
+	 */
+	ranges: Record<string, DrawRange>;
 	create(rng: Rng): ProblemDraft;
 	mistakes?(problem: Problem): Mistake[];
 	/** Decision problems: the right choice, given the calculator's result. */

@@ -3,12 +3,49 @@ import { unitLabel } from '../../calc/units';
 import { given } from '../../calc/worksheet';
 import type { Rng } from '../random';
 
-/** Bores of clay, concrete and plastic sewers and drains met on patch jobs (mm). */
+/**
+ * Bores of clay, concrete and plastic sewers and drains met on patch jobs (mm): the DN100-300
+ * scope of the courses (common practice).
+ */
 export const SEWER_BORES_MM = [100, 150, 150, 200, 225, 250, 300] as const;
 
-export const HOST_PIPES = ['clay sewer', 'clay drain', 'concrete sewer', 'PVC sewer', 'clay lateral', 'asbestos-cement sewer'] as const;
+/**
+ * Host pipes with the bores they are met in (mm, common practice): laterals and drains are
+ * 100-150 mm; concrete sewers start at about 225 mm; asbestos-cement sewers from 150 mm.
+ */
+const HOSTS: readonly [host: string, smallestMm: number, largestMm: number][] = [
+	['clay sewer', 150, 300],
+	['clay drain', 100, 150],
+	['concrete sewer', 225, 300],
+	['PVC sewer', 100, 300],
+	['clay lateral', 100, 150],
+	['asbestos-cement sewer', 150, 300]
+];
 
-export const DEFECTS = ['circumferential crack', 'open joint', 'longitudinal crack', 'root-damaged joint', 'displaced joint', 'holed section'] as const;
+/** A host pipe that really comes in this bore. */
+export function pickHost(rng: Rng, boreMm: number): string {
+	return rng.pick(HOSTS.filter(([, lo, hi]) => boreMm >= lo && boreMm <= hi).map(([host]) => host));
+}
+
+/**
+ * Defects with the length along the pipe a CCTV survey usually measures for them (mm, common
+ * practice): joints and circumferential cracks are short; longitudinal cracks and holed
+ * sections run further. Longer damage is a case for a longer liner, not a point repair drill.
+ */
+export const DEFECT_LENGTHS_MM: readonly [defect: string, shortestMm: number, longestMm: number][] = [
+	['circumferential crack', 20, 100],
+	['open joint', 20, 100],
+	['root-damaged joint', 50, 200],
+	['displaced joint', 50, 150],
+	['longitudinal crack', 150, 600],
+	['holed section', 100, 300]
+];
+
+/** A defect and its measured length, in 10 mm steps. */
+export function pickDefect(rng: Rng): { defect: string; lengthMm: number } {
+	const [defect, lo, hi] = rng.pick(DEFECT_LENGTHS_MM);
+	return { defect, lengthMm: rng.step(lo, hi, 10) };
+}
 
 /** Concentric transitions between common bores (small, large), mm. */
 export const TRANSITIONS_MM: readonly [number, number][] = [

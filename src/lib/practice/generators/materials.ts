@@ -1,11 +1,16 @@
 /** Problems on glass mat and resin: resin quantity, laminate volume, mat size, mix ratio. */
 import type { Generator, Mistake } from '../types';
-import { a, aPipe, DEFECTS, g, HOST_PIPES, inUnit, pickWeighted, SEWER_BORES_MM, TRANSITIONS_MM } from './common';
+import { a, aPipe, g, inUnit, pickDefect, pickHost, pickWeighted, SEWER_BORES_MM, TRANSITIONS_MM } from './common';
 
 /** Chopped and stitched glass mats sold for patch work, g/m² (common practice). */
 const MAT_WEIGHTS = [450, 600, 900, 1000] as const;
 
 const END_COVER_MM = 150;
+
+/** Ranges shared by the mat and resin problems, with their basis. */
+const BORE = { min: 100, max: 300, basis: 'DN100-300 sewers and drains, the scope of the courses (common practice)' };
+const PATCH_LENGTH = { min: 320, max: 1200, basis: 'point-repair patches of about 0.3-1.2 m, the usual packer working lengths (common practice)' };
+const PLIES = { min: 2, max: 4, basis: '2 to 4 plies of mat, 3 usual (common practice)' };
 
 export const resinQuantityGenerator: Generator = {
 	id: 'resin-quantity',
@@ -14,20 +19,29 @@ export const resinQuantityGenerator: Generator = {
 	topic: 'Resin quantity',
 	level: 'foundation',
 	tolerancePercent: 2,
+	ranges: {
+		diameterMm: BORE,
+		lengthMm: PATCH_LENGTH,
+		defectMm: { min: 20, max: 600, basis: 'defect lengths along the pipe as surveys measure them, joints 20-200 mm, cracks and holes up to 600 mm (common practice)' },
+		plies: PLIES,
+		matWeightGm2: { min: 450, max: 1000, basis: 'chopped and stitched mats sold for patch work (common practice)' },
+		resinGlassRatio: { min: 1.9, max: 3, basis: 'chopped strand mat by hand lay-up, 25-35 % glass by weight (composites handbook ranges, from memory)' },
+		wastePercent: { min: 10, max: 20, basis: 'waste allowance of 10-20 % (common practice)' }
+	},
 	create(rng) {
 		const diameterMm = rng.pick(SEWER_BORES_MM);
-		const host = rng.pick(HOST_PIPES);
-		const defectMm = rng.step(100, 700, 50);
+		const host = pickHost(rng, diameterMm);
+		const { defect, lengthMm: defectMm } = pickDefect(rng);
 		const fromDefect = rng.chance(0.5);
 		const lengthMm = fromDefect ? defectMm + 2 * END_COVER_MM : rng.step(400, 1200, 100);
 		const plies = pickWeighted(rng, [[2, 1], [3, 3], [4, 1]]);
 		const matWeightGm2 = rng.pick(MAT_WEIGHTS);
-		const resinGlassRatio = rng.step(1.1, 2, 0.1);
+		const resinGlassRatio = rng.step(1.9, 3, 0.1);
 		const wastePercent = rng.pick([10, 15, 20]);
 		const unit = rng.chance(0.75) ? 'kg' : 'g';
 		const mat = `${plies} plies of ${g(matWeightGm2, 'g/m2')} glass mat`;
 		const where = fromDefect
-			? `${aPipe(diameterMm, host)} has ${a(g(defectMm, 'mm'))} ${rng.pick(DEFECTS)}. The patch is to cover ${g(END_COVER_MM, 'mm')} of sound pipe beyond each end of the defect and is made of ${mat}.`
+			? `${aPipe(diameterMm, host)} has ${a(defect)} measuring ${g(defectMm, 'mm')} along the pipe. The patch is to cover ${g(END_COVER_MM, 'mm')} of sound pipe beyond each end of the defect and is made of ${mat}.`
 			: `${aPipe(diameterMm, host)} needs ${a(g(lengthMm, 'mm'))} patch made of ${mat}.`;
 		return {
 			inputs: { diameterMm, lengthMm, plies, matWeightGm2, resinGlassRatio, wastePercent },
@@ -67,17 +81,23 @@ export const laminateVolumeGenerator: Generator = {
 	topic: 'Resin quantity',
 	level: 'foundation',
 	tolerancePercent: 2,
+	ranges: {
+		diameterMm: BORE,
+		thicknessMm: { min: 3, max: 6, basis: 'cured patch laminates of 3-6 mm in DN100-300 (common practice)' },
+		lengthMm: PATCH_LENGTH
+	},
 	create(rng) {
 		const diameterMm = rng.pick(SEWER_BORES_MM);
 		const thicknessMm = rng.pick([3, 4, 4.5, 5, 6]);
 		const lengthMm = rng.step(400, 1200, 100);
+		const host = pickHost(rng, diameterMm);
 		const unit = rng.chance(0.75) ? 'L' : 'mL';
 		return {
 			inputs: { diameterMm, thicknessMm, lengthMm },
 			asks: 'volumeL',
 			unit,
 			prompt:
-				`${aPipe(diameterMm, rng.pick(HOST_PIPES))} gets ${a(g(lengthMm, 'mm'))} patch that cures to a ${g(thicknessMm, 'mm')} thick laminate inside the bore. ` +
+				`${aPipe(diameterMm, host)} gets ${a(g(lengthMm, 'mm'))} patch that cures to a ${g(thicknessMm, 'mm')} thick laminate inside the bore. ` +
 				`What volume of laminate is that, ${inUnit(unit)}?`
 		};
 	},
@@ -97,6 +117,13 @@ export const matSizeGenerator: Generator = {
 	topic: 'Mat size',
 	level: 'foundation',
 	tolerancePercent: 2,
+	ranges: {
+		diameterMm: BORE,
+		plies: PLIES,
+		overlapMm: { min: 50, max: 100, basis: 'overlap of the last ply, 50-100 mm (common practice)' },
+		patchLengthMm: PATCH_LENGTH,
+		smallDiameterMm: { min: 100, max: 225, basis: 'small side of the common concentric transitions (common practice)' }
+	},
 	create(rng) {
 		const plies = pickWeighted(rng, [[2, 1], [3, 3], [4, 1]]);
 		const overlapMm = rng.pick([50, 75, 100]);
@@ -104,9 +131,10 @@ export const matSizeGenerator: Generator = {
 		const transition = rng.chance(0.3) ? rng.pick(TRANSITIONS_MM) : undefined;
 		const diameterMm = transition ? transition[1] : rng.pick(SEWER_BORES_MM);
 		const asksArea = rng.chance(0.25);
+		const host = pickHost(rng, diameterMm);
 		const situation = transition
 			? `A transition from ${g(transition[0], 'mm')} to ${g(transition[1], 'mm')} gets ${a(g(patchLengthMm, 'mm'))} patch`
-			: `${aPipe(diameterMm, rng.pick(HOST_PIPES))} gets ${a(g(patchLengthMm, 'mm'))} patch`;
+			: `${aPipe(diameterMm, host)} gets ${a(g(patchLengthMm, 'mm'))} patch`;
 		return {
 			inputs: { diameterMm, plies, overlapMm, patchLengthMm },
 			asks: asksArea ? 'areaM2' : 'cutWidthMm',
@@ -151,6 +179,15 @@ export const mixRatioGenerator: Generator = {
 	topic: 'Mix ratio',
 	level: 'foundation',
 	tolerancePercent: 2,
+	ranges: {
+		totalKg: { min: 0.6, max: 3, basis: 'mixed resin for one DN100-300 patch, as the resin quantity problems give (common practice)' },
+		totalL: { min: 0, max: 0, basis: 'the batch is stated by mass' },
+		ratioA: { min: 2, max: 100, basis: 'mix ratios as two-part data sheets state them, 100:25 to 2:1 (common practice)' },
+		ratioB: { min: 1, max: 50, basis: 'mix ratios as two-part data sheets state them (common practice)' },
+		ratioByVolume: { min: 0, max: 1, basis: 'ratio stated by weight or by volume' },
+		densityAGcm3: { min: 1.1, max: 1.2, basis: 'liquid resins about 1.1-1.2 g/cm³ (from memory)' },
+		densityBGcm3: { min: 0.95, max: 1.05, basis: 'amine hardeners about 0.95-1.05 g/cm³ (from memory)' }
+	},
 	create(rng) {
 		const [ratioA, ratioB] = rng.pick(MIX_RATIOS);
 		const byVolume = rng.chance(0.25) ? 1 : 0;

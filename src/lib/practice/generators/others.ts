@@ -1,6 +1,8 @@
 /** Problems on the transition taper, cure time, watertightness tests and ASTM F1216 liner thickness. */
 import type { Generator, Mistake } from '../types';
-import { article, g, HOST_PIPES, inUnit, pickWeighted, SEWER_BORES_MM, TRANSITIONS_MM } from './common';
+import { SLOW_CURE_BELOW_C } from '../../calc/cure';
+import { manholeWettedAreaM2 } from '../../calc/watertightness';
+import { article, g, inUnit, pickHost, pickWeighted, SEWER_BORES_MM, TRANSITIONS_MM } from './common';
 
 export const transitionAreaGenerator: Generator = {
 	id: 'transition-area',
@@ -9,6 +11,11 @@ export const transitionAreaGenerator: Generator = {
 	topic: 'Transition taper',
 	level: 'foundation',
 	tolerancePercent: 3,
+	ranges: {
+		smallDiameterMm: { min: 100, max: 225, basis: 'small side of the common concentric transitions (common practice)' },
+		largeDiameterMm: { min: 150, max: 300, basis: 'large side of the common concentric transitions (common practice)' },
+		taperLengthMm: { min: 50, max: 300, basis: 'reducer and taper lengths met in DN100-300, from short reducers of about 50 mm to 300 mm tapers (common practice)' }
+	},
 	create(rng) {
 		const [smallDiameterMm, largeDiameterMm] = rng.pick(TRANSITIONS_MM);
 		const taperLengthMm = rng.pick([100, 150, 200, 250, 300]);
@@ -43,6 +50,15 @@ export const cureTimeGenerator: Generator = {
 	topic: 'Cure time',
 	level: 'foundation',
 	tolerancePercent: 3,
+	ranges: {
+		refMinutes: { min: 60, max: 240, basis: 'ambient-cure patch resins, 1-4 h at the data sheet temperature (common practice)' },
+		refTempC: { min: 20, max: 25, basis: 'data sheets state cure times at 20-25 °C (common practice)' },
+		// The doubling rule is taught as holding above about 13 °C; colder pipes need heat or a low-temperature system.
+		tempC: { min: SLOW_CURE_BELOW_C + 1, max: 40, basis: 'pipe temperatures where the lesson says the doubling rule holds (above about 13 °C), up to a hot day for pot life' },
+		factorPer10C: { min: 2, max: 2, basis: 'the doubling rule the lesson teaches (common practice)' },
+		potLifeRefMinutes: { min: 20, max: 45, basis: 'pot lives of ambient-cure patch resins at 20-25 °C (common practice)' },
+		airC: { min: 20, max: 31, basis: 'air at the manhole on a mild day, warmer than the pipe (common practice)' }
+	},
 	create(rng) {
 		const refMinutes = rng.pick([60, 90, 120, 180, 240]);
 		const refTempC = pickWeighted(rng, [[20, 3], [25, 1]] as [number, number][]);
@@ -60,9 +76,11 @@ export const cureTimeGenerator: Generator = {
 					`${rule} About how long do you have to finish the wet-out after mixing, in minutes?`
 			};
 		}
-		const tempC = refTempC + rng.pick([-12, -10, -8, -5, -4, 4, 5, 10]);
+		// Colder pipes stay above 13 °C, where the lesson says the rule holds.
+		const colder = refTempC === 20 ? [14, 15, 16, 17, 18] : [15, 17, 19, 20, 21];
+		const tempC = rng.chance(0.7) ? rng.pick(colder) : refTempC + rng.pick([4, 5, 10]);
 		// Air warmer than a cold pipe is the usual trap; a warm pipe is stated alone.
-		const airC = tempC < refTempC && rng.chance(0.6) ? tempC + rng.pick([6, 8, 10, 12]) : undefined;
+		const airC = tempC < refTempC && rng.chance(0.6) ? Math.max(20, tempC + rng.pick([6, 8, 10])) : undefined;
 		const unit = rng.chance(0.6) ? 'min' : 'h';
 		const where =
 			airC === undefined
@@ -102,23 +120,37 @@ export const waterTestGenerator: Generator = {
 	topic: 'Watertightness tests',
 	level: 'foundation',
 	tolerancePercent: 3,
+	ranges: {
+		diameterMm: { min: 100, max: 300, basis: 'DN100-300 sewers and drains, the scope of the courses (common practice)' },
+		lengthM: { min: 10, max: 60, basis: 'one manhole-to-manhole length of 10-60 m (common practice)' },
+		allowanceLPerM2: { min: 0.15, max: 0.2, basis: 'EN 1610 13.3: 0.15 L/m² for a pipeline, 0.20 with its manholes' },
+		manholeAreaM2: { min: 0, max: 22, basis: 'two round manholes of 1.0-1.2 m filled 1.0-2.5 m deep, walls and base (geometry)' },
+		manholeDiameterMm: { min: 1000, max: 1200, basis: 'round manholes of 1.0-1.2 m on DN100-300 sewers (common practice)' },
+		manholeWaterDepthM: { min: 1, max: 2.5, basis: 'test water standing 1.0-2.5 m deep in the manholes, 0.1-0.25 bar at the pipe (EN 1610 tests at 0.1-0.5 bar)' }
+	},
 	create(rng) {
 		const diameterMm = rng.pick(SEWER_BORES_MM);
 		const lengthM = rng.step(10, 60, 5);
 		const withManholes = rng.chance(0.3);
 		const allowanceLPerM2 = withManholes ? 0.2 : 0.15;
+		const manholeDiameterMm = rng.pick([1000, 1200]);
+		const manholeWaterDepthM = rng.step(1, 2.5, 0.5);
+		const manholeAreaM2 = withManholes ? Number((2 * manholeWettedAreaM2(manholeDiameterMm / 1000, manholeWaterDepthM)).toFixed(1)) : 0;
 		const stated = rng.chance(0.6);
 		const asksArea = rng.chance(0.2);
-		const scope = withManholes ? 'the pipeline together with its two manholes' : 'the pipeline only, without manholes';
+		const scope = withManholes
+			? `the pipeline together with its two manholes, whose walls and bases add ${g(manholeAreaM2, 'm2')} of wetted surface (${g(manholeDiameterMm, 'mm')} manholes filled ${g(manholeWaterDepthM, 'm')} deep)`
+			: 'the pipeline only, without manholes';
 		const allowance = stated ? ` The allowance is ${g(allowanceLPerM2, 'L/m2')} of wetted internal surface in 30 minutes.` : '';
 		return {
-			inputs: { diameterMm, lengthM, allowanceLPerM2 },
+			inputs: { diameterMm, lengthM, allowanceLPerM2, manholeAreaM2 },
 			asks: asksArea ? 'wettedAreaM2' : 'allowedL',
 			unit: asksArea ? 'm2' : 'L',
+			given: withManholes ? { manholeDiameterMm, manholeWaterDepthM } : undefined,
 			prompt:
-				`After the repair, ${g(lengthM, 'm')} of ${g(diameterMm, 'mm')} ${rng.pick(HOST_PIPES)} is water tested to EN 1610, method W, covering ${scope}.${allowance} ` +
+				`After the repair, ${g(lengthM, 'm')} of ${g(diameterMm, 'mm')} ${pickHost(rng, diameterMm)} is water tested to EN 1610, method W, covering ${scope}.${allowance} ` +
 				(asksArea
-					? 'What is the wetted internal area, in square metres?'
+					? 'What is the whole wetted internal area under test, in square metres?'
 					: 'What is the most water you may add during the 30-minute test, in litres?')
 		};
 	},
@@ -127,12 +159,13 @@ export const waterTestGenerator: Generator = {
 		const list: Mistake[] = [
 			{ hint: 'The wetted internal area is π × D × L with D the diameter, not the radius.', inputs: { ...i, diameterMm: i.diameterMm / 2 } }
 		];
-		if (p.asks === 'allowedL') {
-			const other = i.allowanceLPerM2 === 0.15 ? 0.2 : 0.15;
+		if (i.manholeAreaM2 > 0) {
 			list.push({
-				hint: 'EN 1610 allows 0.15 L/m² for a pipeline alone and 0.20 L/m² when the manholes are included.',
-				inputs: { ...i, allowanceLPerM2: other }
+				hint: 'The manholes are part of the test: their wetted walls and bases count in the area, and 0.20 L/m² applies to the whole of it.',
+				inputs: { ...i, manholeAreaM2: 0, allowanceLPerM2: 0.15 }
 			});
+		}
+		if (p.asks === 'allowedL') {
 			list.push({ hint: 'That is the wetted area. Multiply it by the allowance per square metre.', asks: 'wettedAreaM2' });
 		}
 		return list;
@@ -146,6 +179,11 @@ export const airTestGenerator: Generator = {
 	topic: 'Watertightness tests',
 	level: 'foundation',
 	tolerancePercent: 3,
+	ranges: {
+		diameterIn: { min: 4, max: 12, basis: '4-12 in plastic gravity sewers, within ASTM F1417 and the DN100-300 scope' },
+		lengthFt: { min: 100, max: 600, basis: 'one manhole-to-manhole length of about 100-600 ft (common practice)' },
+		dropPsig: { min: 0.5, max: 1, basis: 'ASTM F1417 times a 1.0 or a 0.5 psig drop' }
+	},
 	create(rng) {
 		const diameterIn = rng.pick([4, 6, 8, 10, 12]);
 		const lengthFt = rng.step(100, 600, 50);
@@ -156,7 +194,7 @@ export const airTestGenerator: Generator = {
 			asks: unit === 's' ? 'minimumSeconds' : 'minimumMinutes',
 			unit,
 			prompt:
-				`A ${g(lengthFt, 'ft')} run of ${g(diameterIn, 'in')} gravity sewer is air tested to ASTM F1417 after the repair, timing a drop of ${dropPsig === 1 ? '1.0' : '0.5'} psig from 3.5 psig. ` +
+				`A ${g(lengthFt, 'ft')} run of ${g(diameterIn, 'in')} PVC gravity sewer is air tested to ASTM F1417 after the repair, timing a drop of ${dropPsig === 1 ? '1.0' : '0.5'} psig from 3.5 psig. ` +
 				`What is the shortest time the drop may take for the line to pass, ${inUnit(unit)}${unit === 'min' ? ' (decimals or min:s)' : ''}?`
 		};
 	},
@@ -183,6 +221,17 @@ export const f1216PartialGenerator: Generator = {
 	topic: 'Liner design',
 	level: 'advanced',
 	tolerancePercent: 3,
+	ranges: {
+		diameterIn: { min: 6, max: 18, basis: 'gravity sewers of 6-18 in, where F1216 designs are usually checked (common practice)' },
+		pressurePsi: { min: 1.73, max: 8.67, basis: '4-20 ft of groundwater over the invert at 0.433 psi/ft (ASTM F1216 X1)' },
+		waterFt: { min: 4, max: 20, basis: 'groundwater 4-20 ft over the invert, about 1.2-6 m (common practice)' },
+		ovalityPercent: { min: 0, max: 5, basis: 'host pipes up to 5 % oval; more is a case for the engineer (common practice)' },
+		longTermModulusPsi: { min: 100000, max: 150000, basis: 'long-term moduli of felt-tube CIPP, about half the 250 000 psi short-term minimum of ASTM F1216 Table 1' },
+		enhancementK: { min: 7, max: 7, basis: 'ASTM F1216 X1.1: K = 7' },
+		poisson: { min: 0.3, max: 0.3, basis: 'ASTM F1216 X1.1: ν = 0.3' },
+		safetyFactor: { min: 2, max: 2, basis: 'ASTM F1216 X1: N = 2 typical' },
+		flexuralStrengthPsi: { min: 2250, max: 2250, basis: 'half the 4500 psi felt-tube minimum of ASTM F1216 Table 1' }
+	},
 	create(rng) {
 		const diameterIn = rng.pick([6, 8, 10, 12, 15, 18]);
 		const waterFt = rng.step(4, 20, 2);
@@ -206,7 +255,7 @@ export const f1216PartialGenerator: Generator = {
 			given: { waterFt },
 			prompt:
 				`${article(String(diameterIn)) === 'an' ? 'An' : 'A'} ${g(diameterIn, 'in')} gravity sewer is partially deteriorated: it still carries the soil, but groundwater stands ${g(waterFt, 'ft')} above its invert (${g(pressurePsi, 'psi')} at 0.433 psi per foot). ` +
-				`It is ${g(ovalityPercent, '%')} oval. The liner's long-term flexural modulus is ${g(longTermModulusPsi, 'psi')} and its long-term flexural strength 2250 psi; take K = 7, ν = 0.3 and a factor of safety of 2. ` +
+				`It is ${g(ovalityPercent, '%')} oval. The liner maker gives a long-term flexural modulus of ${g(longTermModulusPsi, 'psi')}; for the long-term flexural strength use 2250 psi, half the 4500 psi felt-tube minimum of ASTM F1216 Table 1. Take K = 7, ν = 0.3 and a factor of safety of 2. ` +
 				`What wall thickness does ASTM F1216 Appendix X1 call for, ${inUnit(unit)}?`
 		};
 	},

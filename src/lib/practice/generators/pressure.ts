@@ -46,6 +46,11 @@ export const groundwaterHeadGenerator: Generator = {
 	topic: 'Groundwater head',
 	level: 'foundation',
 	tolerancePercent: 2,
+	ranges: {
+		headM: { min: 0.5, max: 6, basis: 'groundwater 0.5-6 m over the invert on patch jobs (common practice)' },
+		depthM: { min: 2.5, max: 6, basis: 'invert depths of 2.5-6 m at the manhole (common practice)' },
+		waterBelowCoverM: { min: 0.5, max: 5, basis: 'water table 0.5 m below the cover or deeper (common practice)' }
+	},
 	create(rng) {
 		const head = headSituation(rng);
 		const unit = pickWeighted(rng, [['bar', 2], ['kPa', 1], ['psi', 1]] as [string, number][]);
@@ -63,39 +68,56 @@ export const groundwaterHeadGenerator: Generator = {
 };
 
 /**
- * Packer ratings by bore. Typical values from memory, no published source: each maker rates
- * its own packers, and ratings fall as the diameter grows.
+ * Packer ratings by bore, the example maker's table the packer-rating lesson teaches
+ * (2.5 bar up to 150 mm, 2.0 bar from 151 to 225 mm, 1.5 bar from 226 to 300 mm). Typical
+ * values from memory, no published source: each maker rates its own packers, and ratings
+ * fall as the diameter grows.
  */
-const RATINGS: readonly [number, number][] = [
+export const RATINGS: readonly [boreMm: number, ratedMaxBar: number][] = [
 	[100, 2.5],
 	[150, 2.5],
 	[200, 2],
-	[225, 1.5],
+	[225, 2],
+	[250, 1.5],
 	[300, 1.5]
 ];
 
-const DECISIONS: Choice[] = [
+/**
+ * A light large-bore packer whose maker rates it at only 1.0 bar in a 300 mm pipe (within the
+ * 1-2 bar typical of DN200-300 packers, from memory): with a deep water table it has no window.
+ */
+const LIGHT_PACKER: readonly [boreMm: number, ratedMaxBar: number] = [300, 1];
+
+/** Is a planned pressure safe? Only asked where a window exists, so exactly one choice is right. */
+export const PLAN_CHOICES: Choice[] = [
 	{ value: 'too-low', label: 'Too low: the groundwater could lift the patch' },
 	{ value: 'inside', label: 'Safe: inside the pressure window' },
-	{ value: 'too-high', label: "Too high: above the packer's rating" },
-	{ value: 'no-window', label: 'No pressure is safe here: do not inflate' }
+	{ value: 'too-high', label: "Too high: above the packer's rating" }
+];
+
+/** Is there a safe pressure at all? Asked without a planned pressure, so the two choices exclude each other. */
+export const WINDOW_CHOICES: Choice[] = [
+	{ value: 'window', label: 'Yes: a pressure above the groundwater plus the margin and within the rating exists; inflate within it' },
+	{ value: 'no-window', label: 'No: the groundwater plus the margin is above the rating; do not inflate with this packer' }
 ];
 
 /** Proposed pressures stay at least this far from either edge of the window: no trick questions. */
 const CLEAR_OF_EDGE_BAR = 0.05;
 
+/** Groundwater over the invert on patch jobs: 0.5-6 m (common practice). */
+const HEAD_M = { min: 0.5, max: 6 };
+/** Deep sewers in a high water table: 6-8 m over the invert, met in city centres (common practice). */
+const DEEP_HEAD_M = { min: 6, max: 8 };
+
 function proposeDecision(rng: Rng) {
 	for (;;) {
-		const noWindow = rng.chance(0.15);
-		const [diameterMm, ratedMaxBar] = noWindow ? rng.pick(RATINGS.filter(([, r]) => r <= 2)) : rng.pick(RATINGS);
+		const [diameterMm, ratedMaxBar] = rng.pick(RATINGS);
 		const marginBar = rng.pick([0.2, 0.3, 0.5]);
-		const headM = noWindow ? rng.step(15, 22, 1) : rng.step(1, 12, 0.5);
+		const headM = rng.step(1, HEAD_M.max, 0.5);
 		const minBar = convert(headM, 'mH2O', 'bar') + marginBar;
-		if (noWindow !== minBar > ratedMaxBar + CLEAR_OF_EDGE_BAR) continue;
-		if (!noWindow && minBar > ratedMaxBar - 2 * CLEAR_OF_EDGE_BAR) continue;
-		// With no window, propose a pressure within the rating: it looks safe and is not.
-		const region = noWindow ? 'within-rating' : rng.pick(['too-low', 'inside', 'too-high']);
-		const lo = region === 'too-low' ? 0.2 : region === 'inside' ? minBar : region === 'too-high' ? ratedMaxBar : ratedMaxBar - 0.3;
+		if (minBar > ratedMaxBar - 2 * CLEAR_OF_EDGE_BAR) continue;
+		const region = rng.pick(['too-low', 'inside', 'too-high']);
+		const lo = region === 'too-low' ? 0.2 : region === 'inside' ? minBar : ratedMaxBar;
 		const hi = region === 'too-low' ? minBar : region === 'too-high' ? ratedMaxBar + 1 : ratedMaxBar;
 		const inPsi = rng.chance(0.35);
 		const proposed = inPsi
@@ -103,9 +125,24 @@ function proposeDecision(rng: Rng) {
 			: rng.step(Math.ceil(Math.max(lo, 0.2) * 10) / 10, Math.floor(hi * 10) / 10, 0.1);
 		const proposedBar = inPsi ? convert(proposed, 'psi', 'bar') : proposed;
 		if (!(proposedBar > 0)) continue;
-		if (!noWindow && (Math.abs(proposedBar - minBar) < CLEAR_OF_EDGE_BAR || Math.abs(proposedBar - ratedMaxBar) < CLEAR_OF_EDGE_BAR)) continue;
+		if (Math.abs(proposedBar - minBar) < CLEAR_OF_EDGE_BAR || Math.abs(proposedBar - ratedMaxBar) < CLEAR_OF_EDGE_BAR) continue;
 		if (proposedBar < lo - 1e-9 || proposedBar > hi + 1e-9) continue;
 		return { diameterMm, ratedMaxBar, marginBar, headM, proposed, proposedBar, inPsi };
+	}
+}
+
+/** A job where the question is whether any pressure is safe: about half of them have none. */
+function windowQuestion(rng: Rng) {
+	for (;;) {
+		const none = rng.chance(0.5);
+		const [diameterMm, ratedMaxBar] = none ? LIGHT_PACKER : rng.pick([...RATINGS, LIGHT_PACKER]);
+		const marginBar = rng.pick([0.3, 0.5]);
+		const headM = none || ratedMaxBar === LIGHT_PACKER[1] ? rng.step(DEEP_HEAD_M.min - 2, DEEP_HEAD_M.max, 0.5) : rng.step(1, HEAD_M.max, 0.5);
+		const minBar = convert(headM, 'mH2O', 'bar') + marginBar;
+		// Clear of the edge either way: no trick questions.
+		if (Math.abs(minBar - ratedMaxBar) < CLEAR_OF_EDGE_BAR) continue;
+		if (none !== minBar > ratedMaxBar) continue;
+		return { diameterMm, ratedMaxBar, marginBar, headM };
 	}
 }
 
@@ -116,14 +153,24 @@ export const pressureWindowGenerator: Generator = {
 	topic: 'Pressure window',
 	level: 'foundation',
 	tolerancePercent: 2,
+	ranges: {
+		groundwaterHeadM: { min: 0.5, max: DEEP_HEAD_M.max, basis: 'groundwater 0.5-6 m over the invert, up to 8 m in deep city sewers (common practice)' },
+		marginBar: { min: 0.2, max: 0.5, basis: 'margins of 0.2-0.5 bar over the head that crews and specifications use (common practice)' },
+		ratedMaxBar: { min: 1, max: 2.5, basis: "the lesson's example ratings, 1.5-2.5 bar at DN100-300, and a light 300 mm packer rated 1.0 bar (from memory)" },
+		proposedBar: { min: 0.2, max: 3.5, basis: 'gauge settings a crew might plan, up to 1 bar over the rating' },
+		proposedPsi: { min: 3, max: 51, basis: 'the same plans read on a psi gauge' },
+		depthM: { min: 2.5, max: 6, basis: 'invert depths of 2.5-6 m at the manhole (common practice)' },
+		waterBelowCoverM: { min: 0.5, max: 5, basis: 'water table 0.5 m below the cover or deeper (common practice)' }
+	},
 	create(rng) {
-		if (rng.chance(0.5)) {
+		const kind = rng.float();
+		if (kind < 0.35) {
 			const d = proposeDecision(rng);
 			const reading = d.inPsi ? g(d.proposed, 'psi') : g(d.proposed, 'bar');
 			const given: Record<string, number> = d.inPsi ? { proposedBar: d.proposedBar, proposedPsi: d.proposed } : { proposedBar: d.proposedBar };
 			return {
 				kind: 'choice',
-				choices: DECISIONS,
+				choices: PLAN_CHOICES,
 				inputs: { groundwaterHeadM: d.headM, marginBar: d.marginBar, ratedMaxBar: d.ratedMaxBar },
 				asks: 'decision',
 				unit: '',
@@ -132,6 +179,20 @@ export const pressureWindowGenerator: Generator = {
 					`A packer for a ${g(d.diameterMm, 'mm')} pipe is rated by its maker at ${g(d.ratedMaxBar, 'bar')} for that diameter. ` +
 					`Groundwater stands ${g(d.headM, 'm')} above the invert, and the crew keeps a margin of ${g(d.marginBar, 'bar')} above the head. ` +
 					`The plan is to hold the cure at ${reading}. Is that pressure safe?`
+			};
+		}
+		if (kind < 0.5) {
+			const d = windowQuestion(rng);
+			return {
+				kind: 'choice',
+				choices: WINDOW_CHOICES,
+				inputs: { groundwaterHeadM: d.headM, marginBar: d.marginBar, ratedMaxBar: d.ratedMaxBar },
+				asks: 'decision',
+				unit: '',
+				prompt:
+					`The packer on the van for a ${g(d.diameterMm, 'mm')} pipe is rated by its maker at ${g(d.ratedMaxBar, 'bar')} for that diameter. ` +
+					`Groundwater stands ${g(d.headM, 'm')} above the invert, and the crew keeps a margin of ${g(d.marginBar, 'bar')} above the head. ` +
+					'Is there a pressure that is safe to cure at with this packer?'
 			};
 		}
 		const head = headSituation(rng);
@@ -155,8 +216,8 @@ export const pressureWindowGenerator: Generator = {
 		];
 	},
 	decide(p, r) {
-		const proposed = p.given!.proposedBar;
-		if (r.ok !== true) return 'no-window';
+		if (p.given?.proposedBar === undefined) return r.ok === true ? 'window' : 'no-window';
+		const proposed = p.given.proposedBar;
 		if (proposed < Number(r.minBar)) return 'too-low';
 		if (proposed > Number(r.maxBar)) return 'too-high';
 		return 'inside';
@@ -171,15 +232,19 @@ export const pressureWindowGenerator: Generator = {
 			'too-low': `The lowest safe pressure is the groundwater pressure plus the margin, ${lowest}; below it the water can push the patch off the wall before it cures.`,
 			inside: `Between ${lowest} (groundwater plus margin) and ${rating} (the rating) the patch is held and the packer stays within its rating.`,
 			'too-high': `The maker's rating for this diameter, ${rating}, is the ceiling. Above it the bladder can burst.`,
+			window: `Groundwater plus margin is ${lowest}, below the ${rating} rating: any pressure between the two holds the patch safely.`,
 			'no-window': `Holding the patch needs ${lowest}, more than the packer's ${rating} rating: no pressure is both high enough and safe. Use a packer rated higher for the diameter, or lower the water.`
 		};
 		return chosen === right ? undefined : why[right] + psiNote;
 	},
 	decisionStep(p, r) {
 		const right = pressureWindowGenerator.decide!(p, r);
-		const proposed = p.given!.proposedBar;
-		const shown = p.given?.proposedPsi === undefined ? `${num(proposed)} bar` : `${g(p.given.proposedPsi, 'psi')} = ${num(proposed)} bar`;
-		const label = DECISIONS.find((c) => c.value === right)!.label;
+		if (p.given?.proposedBar === undefined) {
+			return `${WINDOW_CHOICES.find((c) => c.value === right)!.label}.`;
+		}
+		const proposed = p.given.proposedBar;
+		const shown = p.given.proposedPsi === undefined ? `${num(proposed)} bar` : `${g(p.given.proposedPsi, 'psi')} = ${num(proposed)} bar`;
+		const label = PLAN_CHOICES.find((c) => c.value === right)!.label;
 		return `Planned ${shown}: ${label}.`;
 	}
 };
@@ -191,12 +256,19 @@ export const endThrustGenerator: Generator = {
 	topic: 'End thrust',
 	level: 'foundation',
 	tolerancePercent: 3,
+	ranges: {
+		diameterMm: { min: 100, max: 300, basis: 'DN100-300 packers, the scope of the courses (common practice)' },
+		pressureBar: { min: 1, max: 2.5, basis: "working pressures of 1-2.5 bar, never above the lesson's example rating for the bore (from memory)" },
+		smallDiameterMm: { min: 0, max: 225, basis: 'small side of the common concentric transitions, 0 for a straight packer' }
+	},
 	create(rng) {
 		const unit = rng.chance(0.65) ? 'kN' : 'kgf';
 		const ask = unit === 'kN' ? 'forceKN' : 'forceKgf';
 		if (rng.chance(0.35)) {
 			const [small, large] = rng.pick(TRANSITIONS_MM);
-			const pressureBar = rng.pick([1, 1.5, 2]);
+			// A transition packer is held to its rating at the larger bore.
+			const largeRating = RATINGS.find(([bore]) => bore === large)![1];
+			const pressureBar = rng.pick([1, 1.5, 2].filter((p) => p <= largeRating));
 			return {
 				inputs: { diameterMm: large, pressureBar, smallDiameterMm: small },
 				asks: ask,
