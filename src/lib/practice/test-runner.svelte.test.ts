@@ -57,7 +57,7 @@ describe('the test runner (client state)', () => {
 	});
 
 	it('shows a refused save and goes to the result when the attempt is closed', async () => {
-		const { fn } = fakeFetch((c) => (c.url.endsWith('/0') ? { status: 400, body: { error: { code: 'bad_request', message: 'The answer does not fit this item.' } } } : { status: 409, body: { error: { code: 'conflict', message: 'Time is up.' } } }));
+		const { fn } = fakeFetch((c) => (c.url.endsWith('/0') ? { status: 400, body: { error: { code: 'bad_request', message: 'The answer does not fit this item.' } } } : { status: 409, body: { error: { code: 'conflict', message: 'Time is up.', reason: 'time-up' } } }));
 		const runner = new TestRunner(data(60_000), fn);
 		runner.setAnswer(0, { choice: 5 });
 		await vi.advanceTimersByTimeAsync(0);

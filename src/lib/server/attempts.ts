@@ -7,8 +7,13 @@
  *   and a passed test is not retaken.
  * - Items are drawn on the server; the runner view carries no answers and no seeds.
  * - Answers are refused once the attempt is submitted or past its deadline (plus
- *   LATE_GRACE_MS for a request already in flight). An attempt found past its deadline is
- *   closed and graded with the answers saved in time.
+ *   LATE_GRACE_MS for a request already in flight). An attempt past its deadline is closed
+ *   and graded with the answers saved in time by the next state-changing call (start, save,
+ *   submit, lifting a wait) or by `closeDueAttempts`; reads (page loads, GETs) show it as
+ *   closed, graded in memory, and change nothing.
+ * - Every state change is one transaction whose write is guarded by `submitted_at is null`:
+ *   an answer is one upserted row per item (two saves never overwrite each other), and an
+ *   attempt closes exactly once, with its per-item results in their own rows.
  * - Submitting twice changes nothing; grading happens here only.
  * - Every function that takes a person's id answers only for that person's attempts: another
  *   person's attempt is "not found".
@@ -52,7 +57,7 @@ interface Options {
 }
 
 type Row = Selectable<TestAttemptTable>;
-type Answers = Record<string, ItemAnswer>;
+type Answers = Record<number, ItemAnswer>;
 
 export type Refusal = { ok: false; status: 400 | 403 | 404 | 409; reason: string; message: string; errors?: Record<string, string>; summary?: AttemptSummary; availableAt?: string };
 
@@ -115,7 +120,25 @@ export function summarise(row: Row): AttemptSummary {
 }
 
 const items = (row: Row): DrawnItem[] => JSON.parse(row.items);
-const answersOf = (row: Row): Answers => JSON.parse(row.answers);
+
+/** The answers saved to an attempt, by position. A stored answer that is not JSON counts as none. */
+async function answersOf(db: DB, attemptId: string): Promise<Answers> {
+	const rows = await db.selectFrom('test_answer').select(['position', 'answer']).where('attempt_id', '=', attemptId).execute();
+	const answers: Answers = {};
+	for (const r of rows) {
+		try {
+			answers[r.position] = JSON.parse(r.answer);
+		} catch {
+			// Unreadable: ungraded as unanswered rather than blocking the attempt.
+		}
+	}
+	return answers;
+}
+
+async function resultsOf(db: DB, attemptId: string): Promise<ItemGrade[]> {
+	const rows = await db.selectFrom('test_item_result').select(['position', 'correct', 'answered', 'hint']).where('attempt_id', '=', attemptId).orderBy('position').execute();
+	return rows.map((r) => ({ correct: r.correct === 1, answered: r.answered === 1, ...(r.hint ? { hint: r.hint } : {}) }));
+}
 
 function isPastDeadline(row: Row, now: Date): boolean {
 	return row.deadline_at !== null && now.getTime() > Date.parse(row.deadline_at) + LATE_GRACE_MS;
@@ -127,43 +150,92 @@ async function ownAttempt(db: DB, userId: string, attemptId: string): Promise<Ro
 
 // ---------------------------------------------------------------- grading
 
-/** Grades and closes an open attempt; does nothing to one already closed. Returns the row as it ends up. */
-async function close(db: DB, row: Row, closedBy: 'person' | 'time limit', at: Date, actorId: string | null): Promise<Row> {
+interface Graded {
+	row: Row;
+	results: ItemGrade[];
+}
+
+/** Pure: the attempt as it is once closed with these answers. */
+function graded(row: Row, answers: Answers, closedBy: 'person' | 'time limit', at: Date): Graded {
 	const drawn = items(row);
-	const answers = answersOf(row);
 	const results: ItemGrade[] = drawn.map((item, i) => gradeItem(item, answers[i]));
 	const correct = results.filter((r) => r.correct).length;
 	const score = drawn.length === 0 ? 0 : (correct * 100) / drawn.length;
 	const submittedAt = closedBy === 'time limit' && row.deadline_at ? row.deadline_at : at.toISOString();
-	const passed = score >= row.pass_mark ? 1 : 0;
-	const update = await db
-		.updateTable('test_attempt')
-		.set({ submitted_at: submittedAt, closed_by: closedBy, correct_count: correct, score_percent: score, passed, results: JSON.stringify(results) })
-		.where('id', '=', row.id)
-		.where('submitted_at', 'is', null)
-		.executeTakeFirst();
-	if (Number(update.numUpdatedRows) > 0) {
-		await recordAudit(
-			{
-				actorId,
-				action: 'test.submit',
-				subjectType: 'test_attempt',
-				subjectId: row.id,
-				detail: { userId: row.user_id, courseSlug: row.course_slug, scorePercent: Math.round(score * 10) / 10, passed: passed === 1, closedBy }
-			},
-			db
-		);
-	}
-	return (await db.selectFrom('test_attempt').selectAll().where('id', '=', row.id).executeTakeFirstOrThrow()) as Row;
+	return {
+		row: { ...row, submitted_at: submittedAt, closed_by: closedBy, correct_count: correct, score_percent: score, passed: score >= row.pass_mark ? 1 : 0 },
+		results
+	};
 }
 
-/** Closes any of the person's open attempts that ran past their deadline. */
+/**
+ * Grades and closes an open attempt, once: the update is guarded by `submitted_at is null`, and
+ * only the call that closed it writes the results and the audit entry. Returns the row as it
+ * ends up. Runs in the caller's transaction, or its own.
+ */
+async function close(db: DB, row: Row, closedBy: 'person' | 'time limit', at: Date, actorId: string | null): Promise<Row> {
+	return inTransaction(db, async (trx) => {
+		const done = graded(row, await answersOf(trx, row.id), closedBy, at);
+		const { submitted_at, closed_by, correct_count, score_percent, passed } = done.row;
+		const update = await trx
+			.updateTable('test_attempt')
+			.set({ submitted_at, closed_by, correct_count, score_percent, passed })
+			.where('id', '=', row.id)
+			.where('submitted_at', 'is', null)
+			.executeTakeFirst();
+		if (Number(update.numUpdatedRows) > 0) {
+			if (done.results.length > 0) {
+				await trx
+					.insertInto('test_item_result')
+					.values(done.results.map((r, position) => ({ attempt_id: row.id, position, correct: r.correct ? 1 : 0, answered: r.answered ? 1 : 0, hint: r.hint ?? null })))
+					.execute();
+			}
+			await recordAudit(
+				{
+					actorId,
+					action: 'test.submit',
+					subjectType: 'test_attempt',
+					subjectId: row.id,
+					detail: { userId: row.user_id, courseSlug: row.course_slug, scorePercent: Math.round(score_percent! * 10) / 10, passed: passed === 1, closedBy }
+				},
+				trx
+			);
+		}
+		return (await trx.selectFrom('test_attempt').selectAll().where('id', '=', row.id).executeTakeFirstOrThrow()) as Row;
+	});
+}
+
+/** Closes any of the person's open attempts that ran past their deadline. For state-changing calls only. */
 async function closeExpired(db: DB, userId: string, now: Date, courseSlug?: string): Promise<void> {
 	let query = db.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('submitted_at', 'is', null).where('deadline_at', 'is not', null);
 	if (courseSlug) query = query.where('course_slug', '=', courseSlug);
 	for (const row of await query.execute()) {
 		if (isPastDeadline(row, now)) await close(db, row, 'time limit', now, null);
 	}
+}
+
+/**
+ * Closes every attempt past its deadline, for a scheduled sweep; returns how many it closed.
+ * Each closes in its own transaction.
+ */
+export async function closeDueAttempts({ db = defaultDb, now = new Date() }: Options = {}): Promise<number> {
+	const open = await db.selectFrom('test_attempt').selectAll().where('submitted_at', 'is', null).where('deadline_at', 'is not', null).execute();
+	let closed = 0;
+	for (const row of open) {
+		if (!isPastDeadline(row, now)) continue;
+		const after = await close(db, row, 'time limit', now, null);
+		if (after.closed_by === 'time limit' && after.submitted_at === row.deadline_at) closed++;
+	}
+	return closed;
+}
+
+/**
+ * For reads: the attempt as it stands at `now`, an open one past its deadline graded in memory
+ * (exactly as `close` will store it) and nothing written.
+ */
+async function settled(db: DB, row: Row, now: Date): Promise<Graded | { row: Row; results: null }> {
+	if (row.submitted_at === null && isPastDeadline(row, now)) return graded(row, await answersOf(db, row.id), 'time limit', now);
+	return { row, results: null };
 }
 
 // ---------------------------------------------------------------- rules
@@ -210,12 +282,12 @@ function evaluate(course: Course, rows: Row[], enrolled: boolean, now: Date): Om
 	};
 }
 
-/** Where a person stands with a course test. Null for an unknown course. */
+/** Where a person stands with a course test. Null for an unknown course. Reads only. */
 export async function testStatus(userId: string, courseSlug: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<TestStatus | null> {
 	const course = getCourse(courseSlug);
 	if (!course) return null;
-	await closeExpired(db, userId, now, courseSlug);
-	const rows = (await db.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('course_slug', '=', courseSlug).execute()) as Row[];
+	const stored = (await db.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('course_slug', '=', courseSlug).execute()) as Row[];
+	const rows = await Promise.all(stored.map(async (r) => (await settled(db, r, now)).row));
 	const enrolled = await isEnrolled(userId, courseSlug, db);
 	return {
 		course: { slug: course.slug, title: course.title, code: course.code },
@@ -227,7 +299,7 @@ export async function testStatus(userId: string, courseSlug: string, { db = defa
 
 // ---------------------------------------------------------------- the runner
 
-function runnerView(row: Row, course: Course, now: Date): RunnerView {
+function runnerView(row: Row, answers: Answers, course: Course, now: Date): RunnerView {
 	return {
 		status: 'open',
 		id: row.id,
@@ -236,7 +308,7 @@ function runnerView(row: Row, course: Course, now: Date): RunnerView {
 		deadlineAt: row.deadline_at,
 		serverNow: now.toISOString(),
 		items: items(row).map((item, i) => runnerItem(item, i)),
-		answers: answersOf(row)
+		answers
 	};
 }
 
@@ -259,7 +331,7 @@ export async function startAttempt(
 			await closeExpired(trx, userId, now, courseSlug);
 			const rows = (await trx.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('course_slug', '=', courseSlug).execute()) as Row[];
 			const open = rows.find((r) => r.submitted_at === null);
-			if (open) return { ok: true, resumed: true, attempt: runnerView(open, course, now) };
+			if (open) return { ok: true, resumed: true, attempt: runnerView(open, await answersOf(trx, open.id), course, now) };
 			const status = evaluate(course, rows, true, now);
 			if (status.blocked) {
 				return { ok: false, status: 409, reason: status.blocked.reason, message: status.blocked.message, ...(status.nextStartAt ? { availableAt: status.nextStartAt } : {}) };
@@ -294,7 +366,7 @@ export async function startAttempt(
 			} satisfies Row;
 			await trx.insertInto('test_attempt').values(row).execute();
 			await recordAudit({ actorId: userId, action: 'test.start', subjectType: 'test_attempt', subjectId: row.id, detail: { courseSlug, attempt: status.attemptsUsed + 1 } }, trx);
-			return { ok: true, resumed: false, attempt: runnerView(row, course, now) };
+			return { ok: true, resumed: false, attempt: runnerView(row, {}, course, now) };
 		});
 	try {
 		return await attempt();
@@ -305,19 +377,19 @@ export async function startAttempt(
 	}
 }
 
-/** The runner's view of an open attempt, or its summary once closed. Null when not the person's. */
+/** The runner's view of an open attempt, or its summary once closed (or due). Null when not the person's. Reads only. */
 export async function getAttempt(
 	userId: string,
 	attemptId: string,
 	{ db = defaultDb, now = new Date() }: Options = {}
 ): Promise<RunnerView | { status: 'submitted'; summary: AttemptSummary } | null> {
-	let row = await ownAttempt(db, userId, attemptId);
-	if (!row) return null;
-	if (row.submitted_at === null && isPastDeadline(row, now)) row = await close(db, row, 'time limit', now, null);
+	const stored = await ownAttempt(db, userId, attemptId);
+	if (!stored) return null;
+	const { row } = await settled(db, stored, now);
 	if (row.submitted_at !== null) return { status: 'submitted', summary: summarise(row) };
 	const course = getCourse(row.course_slug);
 	if (!course) return null;
-	return runnerView(row, course, now);
+	return runnerView(row, await answersOf(db, row.id), course, now);
 }
 
 /** Autosaves one answer. Refused after submission and after the deadline. */
@@ -342,9 +414,25 @@ export async function saveAnswer(
 		}
 		const parsed = answerSchema(runnerItem(drawn[position], position)).safeParse(raw);
 		if (!parsed.success) return { ok: false, status: 400, reason: 'bad-answer', message: 'The answer does not fit this item.', errors: fieldErrors(parsed.error) };
-		const answers = { ...answersOf(row), [position]: parsed.data };
-		await trx.updateTable('test_attempt').set({ answers: JSON.stringify(answers) }).where('id', '=', row.id).where('submitted_at', 'is', null).execute();
-		return { ok: true, savedAt: now.toISOString() };
+		const savedAt = now.toISOString();
+		const answer = JSON.stringify(parsed.data);
+		// One row per item, written only while the attempt is open (the guard is in the same statement).
+		const write = await trx
+			.insertInto('test_answer')
+			.columns(['attempt_id', 'position', 'answer', 'saved_at'])
+			.expression((eb) =>
+				eb
+					.selectFrom('test_attempt')
+					.select([eb.val(row.id).as('attempt_id'), eb.val(position).as('position'), eb.val(answer).as('answer'), eb.val(savedAt).as('saved_at')])
+					.where('id', '=', row.id)
+					.where('submitted_at', 'is', null)
+			)
+			.onConflict((oc) => oc.columns(['attempt_id', 'position']).doUpdateSet((eb) => ({ answer: eb.ref('excluded.answer'), saved_at: eb.ref('excluded.saved_at') })))
+			.executeTakeFirst();
+		if (Number(write.numInsertedOrUpdatedRows ?? 0) === 0) {
+			return { ok: false, status: 409, reason: 'submitted', message: 'This attempt is already submitted; answers can no longer change.' };
+		}
+		return { ok: true, savedAt };
 	});
 }
 
@@ -370,12 +458,15 @@ export async function submitAttempt(
 
 // ---------------------------------------------------------------- review
 
-function review(row: Row): AttemptReview | null {
-	const course = getCourse(row.course_slug);
-	if (!course || row.submitted_at === null || row.results === null) return null;
+async function review(db: DB, stored: Row, now: Date): Promise<AttemptReview | null> {
+	const course = getCourse(stored.course_slug);
+	const settledNow = await settled(db, stored, now);
+	const row = settledNow.row;
+	if (!course || row.submitted_at === null) return null;
 	const drawn = items(row);
-	const answers = answersOf(row);
-	const results: ItemGrade[] = JSON.parse(row.results);
+	const answers = await answersOf(db, row.id);
+	const results = settledNow.results ?? (await resultsOf(db, row.id));
+	if (results.length !== drawn.length) return null;
 	return {
 		...summarise(row),
 		course: { slug: course.slug, title: course.title },
@@ -383,32 +474,34 @@ function review(row: Row): AttemptReview | null {
 	};
 }
 
-/** The person's own graded attempt with answers and worked solutions; null before submission or when not theirs. */
+/** The person's own graded attempt with answers and worked solutions; null before submission or when not theirs. Reads only. */
 export async function reviewAttempt(userId: string, attemptId: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<AttemptReview | null> {
-	let row = await ownAttempt(db, userId, attemptId);
-	if (!row) return null;
-	if (row.submitted_at === null && isPastDeadline(row, now)) row = await close(db, row, 'time limit', now, null);
-	return review(row);
+	const row = await ownAttempt(db, userId, attemptId);
+	return row ? review(db, row, now) : null;
 }
 
 /** An attempt with the person it belongs to, for a trainer or registrar whose scope holds that person; null otherwise. */
-export async function reviewAttemptForStaff(viewerId: string, attemptId: string, { db = defaultDb }: Options = {}) {
+export async function reviewAttemptForStaff(viewerId: string, attemptId: string, { db = defaultDb, now = new Date() }: Options = {}) {
 	const row = await db.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).executeTakeFirst();
 	if (!row || !(await trainerMaySee(viewerId, row.user_id, db))) return null;
 	const person = await db.selectFrom('User').select(['id', 'name', 'email']).where('id', '=', row.user_id).executeTakeFirstOrThrow();
-	return { person, summary: summarise(row), review: review(row) };
+	return { person, summary: summarise((await settled(db, row, now)).row), review: await review(db, row, now) };
 }
 
-/** Whether the person has passed the course test: what the certificate rules ask. */
-export async function hasPassedTest(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
-	const row = await db
+/**
+ * Whether the person has passed the course test: what the certificate rules ask. An attempt
+ * past its deadline but not yet closed counts as it will be graded.
+ */
+export async function hasPassedTest(userId: string, courseSlug: string, db: DB = defaultDb, now = new Date()): Promise<boolean> {
+	const rows = (await db
 		.selectFrom('test_attempt')
-		.select('id')
+		.selectAll()
 		.where('user_id', '=', userId)
 		.where('course_slug', '=', courseSlug)
-		.where('passed', '=', 1)
-		.executeTakeFirst();
-	return !!row;
+		.where((eb) => eb.or([eb('passed', '=', 1), eb('submitted_at', 'is', null)]))
+		.execute()) as Row[];
+	for (const r of rows) if ((await settled(db, r, now)).row.passed === 1) return true;
+	return false;
 }
 
 // ---------------------------------------------------------------- trainers and registrars
@@ -435,7 +528,7 @@ export async function listAttemptsForStaff(
 		.orderBy('test_attempt.started_at', 'desc')
 		.limit(500);
 	if (courseSlug) query = query.where('test_attempt.course_slug', '=', courseSlug);
-	const rows = await query.execute();
+	const rows = await Promise.all((await query.execute()).map(async (r) => ({ ...r, ...(await settled(db, r as Row, now)).row })));
 	const latestClosed = new Map<string, string>();
 	const hasOpen = new Set<string>();
 	for (const r of rows) {
@@ -467,6 +560,7 @@ export async function waiveWait(actorId: string, attemptId: string, { db = defau
 	return inTransaction(db, async (trx) => {
 		const row = await trx.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).executeTakeFirst();
 		if (!row || !(await trainerMaySee(actorId, row.user_id, trx))) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
+		await closeExpired(trx, row.user_id, now, row.course_slug);
 		const course = getCourse(row.course_slug);
 		const all = (await trx.selectFrom('test_attempt').selectAll().where('user_id', '=', row.user_id).where('course_slug', '=', row.course_slug).execute()) as Row[];
 		const latest = all.filter((r) => r.submitted_at !== null).sort((a, b) => b.submitted_at!.localeCompare(a.submitted_at!))[0];

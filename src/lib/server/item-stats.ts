@@ -128,14 +128,29 @@ export async function itemStatistics(viewerId: string, courseSlug: string, db: D
 		.where('course_slug', '=', courseSlug)
 		.where('submitted_at', 'is not', null)
 		.execute()) as Selectable<TestAttemptTable>[];
+	const resultRows = rows.length === 0 ? [] : await db
+		.selectFrom('test_item_result')
+		.innerJoin('test_attempt', 'test_attempt.id', 'test_item_result.attempt_id')
+		.select(['test_item_result.attempt_id', 'test_item_result.position', 'test_item_result.correct', 'test_item_result.answered'])
+		.where(inTrainerScope(scope, 'test_attempt.user_id'))
+		.where('test_attempt.course_slug', '=', courseSlug)
+		.execute();
+	const resultsByAttempt = new Map<string, Map<number, { correct: boolean; answered: boolean }>>();
+	for (const r of resultRows) {
+		if (!resultsByAttempt.has(r.attempt_id)) resultsByAttempt.set(r.attempt_id, new Map());
+		resultsByAttempt.get(r.attempt_id)!.set(r.position, { correct: r.correct === 1, answered: r.answered === 1 });
+	}
 	const labels = new Map<string, { label: string; lesson: string | null; source: 'bank' | 'computed' }>();
 	const attempts: ScoredAttempt[] = rows
-		.filter((r) => r.results !== null)
+		.filter((r) => resultsByAttempt.has(r.id))
 		.map((r) => {
 			const drawn: DrawnItem[] = JSON.parse(r.items);
-			const results: { correct: boolean; answered: boolean }[] = JSON.parse(r.results!);
+			const results = resultsByAttempt.get(r.id)!;
 			drawn.forEach((item) => labels.set(itemKey(item), { label: itemLabel(item), lesson: item.lesson, source: item.source }));
-			return { total: r.correct_count ?? 0, items: drawn.map((item, i) => ({ key: itemKey(item), correct: results[i].correct, answered: results[i].answered })) };
+			return {
+				total: r.correct_count ?? 0,
+				items: drawn.map((item, i) => ({ key: itemKey(item), correct: results.get(i)?.correct ?? false, answered: results.get(i)?.answered ?? false }))
+			};
 		});
 	const items = [...computeItemStats(attempts).values()].map((n) => ({ ...n, ...labels.get(n.key)! }));
 	items.sort((a, b) => (a.upperLower ?? Infinity) - (b.upperLower ?? Infinity) || a.key.localeCompare(b.key));

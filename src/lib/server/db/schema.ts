@@ -119,7 +119,11 @@ export interface LessonProgressTable {
 	completed_at: string;
 }
 
-/** A course test attempt. JSON columns: `items` (the draw), `answers` (by position), `results` (per item). */
+/**
+ * A course test attempt. `items` is the draw as JSON. Answers and per-item results live in
+ * `test_answer` and `test_item_result`; the `answers` and `results` columns are left from
+ * before migration 011 and no longer used.
+ */
 export interface TestAttemptTable {
 	id: string;
 	user_id: string;
@@ -136,9 +140,26 @@ export interface TestAttemptTable {
 	correct_count: number | null;
 	score_percent: number | null;
 	passed: 0 | 1 | null;
-	results: string | null;
+	results: Generated<string | null>;
 	wait_waived_at: string | null;
 	wait_waived_by: string | null;
+}
+
+/** One autosaved answer: `answer` is the JSON of an `ItemAnswer`. */
+export interface TestAnswerTable {
+	attempt_id: string;
+	position: number;
+	answer: string;
+	saved_at: string;
+}
+
+/** How one item of a closed attempt was graded. */
+export interface TestItemResultTable {
+	attempt_id: string;
+	position: number;
+	correct: 0 | 1;
+	answered: 0 | 1;
+	hint: string | null;
 }
 
 export interface Database {
@@ -156,6 +177,8 @@ export interface Database {
 	enrolment: EnrolmentTable;
 	lesson_progress: LessonProgressTable;
 	test_attempt: TestAttemptTable;
+	test_answer: TestAnswerTable;
+	test_item_result: TestItemResultTable;
 }
 
 export type User = Selectable<UserTable>;
