@@ -96,15 +96,15 @@ test('the registrar grants a role, the person gains the page, and the audit log 
 	await page.context().addCookies((await registrar.storageState()).cookies);
 	await page.goto(`/registrar/people?q=priya`);
 	await page.getByRole('button', { name: `Grant Trainer for ${person}` }).click();
-	await expect(page.getByRole('status')).toContainText('Granted trainer');
+	await expect(page.getByRole('status')).toContainText('Granted the trainer role to Priya Venn (priya@brindlewick.test).');
 	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(200);
 
 	await page.goto('/registrar/audit');
-	await expect(page.getByRole('row').filter({ hasText: 'role.grant' }).first()).toContainText('trainer');
+	await expect(page.locator('[data-action="role.grant"]').first()).toContainText('Rowan Ashdown (registrar@fenmoor.test) granted the trainer role to Priya Venn (priya@brindlewick.test).');
 
 	await page.goto(`/registrar/people?q=priya`);
 	await page.getByRole('button', { name: `Remove Trainer for ${person}` }).click();
-	await expect(page.getByRole('status')).toContainText('Removed trainer');
+	await expect(page.getByRole('status')).toContainText('Removed the trainer role from Priya Venn');
 	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(403);
 	await registrar.dispose();
 	await priya.dispose();
@@ -148,8 +148,8 @@ test('the registrar enrols a person in a course, recorded in the audit log', asy
 	await expect(person).toContainText('Enrolled: no course');
 	await person.getByLabel(`Course to enrol ${email} in`).selectOption('transition-patches');
 	await person.getByRole('button', { name: `Enrol ${email}` }).click();
-	await expect(page.getByRole('status')).toContainText('Enrolled.');
+	await expect(page.getByRole('status')).toContainText('Enrolled Enrol Me in');
 	await expect(person).toContainText('Enrolled: TP-200');
 	await page.goto('/registrar/audit');
-	await expect(page.getByRole('row').filter({ hasText: 'enrolment.create' }).first()).toContainText('transition-patches');
+	await expect(page.locator('[data-action="enrolment.create"]').first()).toContainText(`enrolled Enrol Me (${email}) in Transition patches`);
 });

@@ -70,7 +70,7 @@ async function startAttempt(page: Page, n: number): Promise<string> {
 	return body.attempt.id;
 }
 
-test('a trainee practises: a wrong answer shows the worked solution, a right one starts a streak', async ({ page }) => {
+test('a trainee practises: a wrong answer shows the worked solution, a right one starts a clean run', async ({ page }) => {
 	await signInRequest(page.request, TRAINEE);
 	await page.goto(`/courses/${COURSE}/practice`);
 	await expect(page.locator('[data-ready="true"]')).toBeVisible();
@@ -93,7 +93,7 @@ test('a trainee practises: a wrong answer shows the worked solution, a right one
 	await page.getByLabel('Your answer').fill(String(right.value));
 	await page.getByRole('button', { name: 'Check' }).click();
 	await expect(feedback).toContainText('Right');
-	await expect(page.getByText('Streak 1', { exact: true })).toBeVisible();
+	await expect(page.getByText('Clean run: 1 right in a row', { exact: true })).toBeVisible();
 
 	// The record stays on the device, and says that practice does not count.
 	await page.reload();
@@ -151,12 +151,19 @@ test('the trainee fails the course test, waits, and passes', async ({ page }) =>
 	const trainerPage = await staff.newPage();
 	await signInRequest(trainerPage.request, who.trainer);
 	await trainerPage.goto(`/trainer/attempts?course=${COURSE}`);
-	await trainerPage.getByRole('button', { name: `Allow a retake now for ${TRAINEE}` }).click();
-	await expect(trainerPage.getByRole('status')).toContainText('may start the next attempt now');
+	await trainerPage.getByText('Allow a retake now…').click();
+	const lift = trainerPage.getByTestId('lift-wait');
+	// Without a reason and a confirmation nothing changes.
+	await lift.getByRole('button', { name: /^Lift the wait for/ }).click();
+	await expect(lift.getByRole('textbox')).toHaveJSProperty('validity.valueMissing', true);
+	await lift.getByRole('textbox').fill('Fire alarm ended the first attempt early');
+	await lift.getByRole('checkbox').check();
+	await lift.getByRole('button', { name: /^Lift the wait for/ }).click();
+	await expect(trainerPage.getByRole('status')).toContainText(/may start the next attempt of .* now/);
 	await staff.close();
 	const registrar = await newRequest.newContext({ baseURL });
 	await signInRequest(registrar, who.registrar);
-	expect(await (await registrar.get('/registrar/audit')).text()).toContain('test.wait-waived');
+	expect(await (await registrar.get('/registrar/audit')).text()).toContain('Fire alarm ended the first attempt early');
 	await registrar.dispose();
 
 	// The second attempt: every item answered right through the runner.

@@ -4,18 +4,19 @@ import { failWith, parseForm } from '$lib/server/form';
 import { enrolSchema, roleChangeSchema } from '$lib/server/role-forms';
 import { enrol, enrolmentsByUser } from '$lib/server/enrolments';
 import { courses } from '$lib/content';
+import { roleLabels } from '$lib/roles';
 import { grantRole, loadIdentity, revokeRole, rolesByUser } from '$lib/server/roles';
 import { searchUsers } from '$lib/server/users';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
-	requireRole(event, 'registrar');
+	const me = requireRole(event, 'registrar');
 	const q = (event.url.searchParams.get('q') ?? '').slice(0, 100);
 	const found = await searchUsers(q);
 	const ids = found.map((p) => p.id);
 	const [roles, enrolments] = await Promise.all([rolesByUser(ids), enrolmentsByUser(ids)]);
 	const people = found.map((p) => ({ ...p, roles: roles.get(p.id)!, enrolments: enrolments.get(p.id)! }));
-	return { q, people, courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })) };
+	return { q, me: me.id, people, courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })) };
 };
 
 async function change(event: Parameters<Actions[string]>[0], kind: 'grant' | 'revoke') {
@@ -23,12 +24,15 @@ async function change(event: Parameters<Actions[string]>[0], kind: 'grant' | 're
 	const parsed = await parseForm(event.request, roleChangeSchema);
 	if (!parsed.ok) return parsed.failure;
 	const { userId, role } = parsed.data;
-	if (!(await loadIdentity(userId))) error(404, 'No such person.');
+	const person = await loadIdentity(userId);
+	if (!person) error(404, 'No such person.');
 	if (kind === 'revoke' && userId === me.id && role === 'registrar') {
 		return failWith(409, parsed.form, 'You cannot remove your own registrar role: ask another registrar.');
 	}
 	await (kind === 'grant' ? grantRole(me.id, userId, role) : revokeRole(me.id, userId, role));
-	return { done: `${kind === 'grant' ? 'Granted' : 'Removed'} ${role}.` };
+	const whom = person.name ? `${person.name} (${person.email})` : person.email;
+	const label = roleLabels[role].toLowerCase();
+	return { done: kind === 'grant' ? `Granted the ${label} role to ${whom}.` : `Removed the ${label} role from ${whom}.` };
 }
 
 export const actions: Actions = {
@@ -36,9 +40,11 @@ export const actions: Actions = {
 		const me = requireRole(event, 'registrar');
 		const parsed = await parseForm(event.request, enrolSchema);
 		if (!parsed.ok) return parsed.failure;
-		if (!(await loadIdentity(parsed.data.userId))) error(404, 'No such person.');
+		const person = await loadIdentity(parsed.data.userId);
+		if (!person) error(404, 'No such person.');
 		await enrol(me.id, parsed.data.userId, parsed.data.course, 'registrar');
-		return { done: 'Enrolled.' };
+		const course = courses.find((c) => c.slug === parsed.data.course)?.title ?? parsed.data.course;
+		return { done: `Enrolled ${person.name ?? person.email} in ${course}.` };
 	},
 	grant: (event) => change(event, 'grant'),
 	revoke: (event) => change(event, 'revoke')
