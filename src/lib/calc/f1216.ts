@@ -160,7 +160,8 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 			min: 0,
 			max: 50,
 			step: 0.01,
-			help: '0.433 psi per foot of water above the invert.'
+			help: '0.433 psi per foot of water above the invert.',
+			helpBySystem: { metric: '9.81 kPa per metre of water above the invert.' }
 		},
 		commonInputs.ovalityPercent,
 		commonInputs.longTermModulusPsi,
