@@ -29,6 +29,7 @@ export const actionLabels: Record<string, string> = {
 	'company.create': 'Company created',
 	'membership.set': 'Company membership set',
 	'password.reset': 'Password reset',
+	'user.sign-up': 'Account created',
 	'test.start': 'Course test started',
 	'test.submit': 'Course test submitted',
 	'test.wait-waived': 'Wait before a retake lifted'
@@ -51,6 +52,7 @@ const phrases: Record<string, Phrase> = {
 	'membership.set': (e, actor, subject) =>
 		`${actor} made ${subject} ${e.detail.role === 'admin' ? 'a company admin' : 'a crew member'}${e.company ? ` of ${e.company}` : ''}.`,
 	'password.reset': (_e, _actor, subject) => `${subject} chose a new password through a reset link.`,
+	'user.sign-up': (_e, _actor, subject) => `${subject} created an account.`,
 	'test.start': (e, _actor, subject, course) => `${subject} started attempt ${text(e.detail.attempt) || ''} of the ${course} course test.`.replace('attempt  of', 'an attempt of'),
 	'test.submit': (e, actor, subject, course) => {
 		const score = typeof e.detail.scorePercent === 'number' ? `${e.detail.scorePercent} %` : 'a score';

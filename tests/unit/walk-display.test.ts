@@ -57,3 +57,24 @@ describe('times in the reader’s zone', () => {
 		expect(formatWhenLocal(iso, 'UTC')).toBe('3 Mar 2026, 08:05 UTC');
 	});
 });
+
+describe('question text uses the signs the rest of the app prints', () => {
+	it('writes ×, π, °C, ² and ³ for their ASCII stand-ins, and leaves words alone', async () => {
+		const { tradeTypography } = await import('$lib/practice/typography');
+		expect(tradeTypography('2 x pi x 225 = 1413.7 mm')).toBe('2 × π × 225 = 1413.7 mm');
+		expect(tradeTypography('a cure time of 100 minutes at 22 degC; every 10 degC drop')).toBe('a cure time of 100 minutes at 22 °C; every 10 °C drop');
+		expect(tradeTypography('F = p x pi x D^2 / 4 = 1.885 m2, 0.5 m3')).toBe('F = p × π × D² / 4 = 1.885 m², 0.5 m³');
+		expect(tradeTypography('Mix part A and part B; pick the pipe')).toBe('Mix part A and part B; pick the pipe');
+	});
+
+	it('leaves no ASCII stand-in in any bank question as loaded', async () => {
+		const { questionsFor } = await import('$lib/server/question-bank');
+		const { courses } = await import('$lib/content');
+		for (const c of courses) {
+			for (const q of questionsFor(c.slug)) {
+				const text = [q.prompt, q.explanation, ...('options' in q ? q.options : [])].join(' ');
+				expect(text, `${c.slug}/${q.id}`).not.toMatch(/\d ?degC|\bpi\b| x \d|\^2/);
+			}
+		}
+	});
+});
