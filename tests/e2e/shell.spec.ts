@@ -48,3 +48,12 @@ test('unknown pages get a friendly 404', async ({ page }) => {
 	expect(response?.status()).toBe(404);
 	await expect(page.getByRole('heading', { name: 'We could not find that page' })).toBeVisible();
 });
+
+test('the API page hydrates cleanly and keeps the backslash of a shell line continuation', async ({ page }) => {
+	const messages: string[] = [];
+	page.on('console', (m) => (m.type() === 'error' || m.type() === 'warning') && messages.push(m.text()));
+	await page.goto('/api-docs');
+	await page.waitForLoadState('networkidle');
+	await expect(page.locator('pre.shiki').filter({ hasText: 'curl' })).toContainText('\\');
+	expect(messages.filter((m) => /hydration/i.test(m))).toEqual([]);
+});

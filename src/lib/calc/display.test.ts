@@ -64,6 +64,14 @@ describe('showing calculators in metric or imperial units', () => {
 		const pressure = calculators['f1216-partial'].inputs.find((s) => s.name === 'pressurePsi')!;
 		expect(inputHelp(pressure, 'metric')).toContain('kPa per metre');
 		expect(inputHelp(pressure, 'imperial')).toContain('psi per foot');
+		// No help line quotes a unit of the other system alone.
+		for (const def of Object.values(calculators)) {
+			for (const spec of def.inputs) {
+				const outside = (system: 'metric' | 'imperial') => (inputHelp(spec, system) ?? '').replace(/\([^)]*\)/g, '');
+				expect(outside('metric'), `${def.id}.${spec.name}`).not.toMatch(/\d ?(psi|in|ft)\b/);
+				expect(outside('imperial'), `${def.id}.${spec.name}`).not.toMatch(/\d ?(mm|kPa|MPa|bar|m)\b/);
+			}
+		}
 	});
 
 	it('offers a unit switch only where it changes something', () => {

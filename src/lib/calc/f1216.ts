@@ -177,7 +177,8 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 			max: 20000,
 			step: 50,
 			optional: true,
-			help: 'For the oval-pipe bending check; half of the 4500 psi short-term minimum is a common choice.'
+			help: 'For the oval-pipe bending check; half of the 4500 psi short-term minimum is a common choice.',
+			helpBySystem: { metric: 'For the oval-pipe bending check; half of the 31 MPa (4500 psi) short-term minimum is a common choice.' }
 		}
 	],
 	results: [
