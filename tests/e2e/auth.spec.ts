@@ -3,6 +3,7 @@ import { firstLink, latestMail, signInWithPassword, who } from './support';
 
 test.describe('signing up and in', () => {
 	test('sign up without a password, follow the e-mailed link, land signed in', async ({ page, request }) => {
+		test.slow(); // two sign-ups and an e-mail round trip
 		const email = `new-${Date.now()}@example.test`;
 		const problems: string[] = [];
 		page.on('console', (m) => m.type() === 'error' && problems.push(m.text()));

@@ -215,6 +215,7 @@ test('the course test says what is wrong with a typed number before saving it, a
 	const card = page.locator('[data-position]');
 	await card.locator('input[type=text]').fill('1,454');
 	await expect(card.getByTestId('input-notice')).toContainText('could mean a decimal or thousands');
+	await expect(card.getByTestId('input-notice')).toContainText('Not saved until it reads as a number.');
 	await expect(card.getByTestId('input-notice')).toHaveAttribute('data-kind', 'unreadable');
 	await page.waitForTimeout(1200); // longer than the typing pause before a save
 	await expect(page.getByTestId('save-state')).toHaveText('');

@@ -22,7 +22,7 @@ export const load: PageServerLoad = async (event) => {
 const retakeSchema = z.object({
 	attemptId: z.string().min(1).max(100),
 	reason: z
-		.string()
+		.string({ error: 'Say in a few words why the wait is lifted: it goes into the audit log.' })
 		.trim()
 		.min(5, 'Say in a few words why the wait is lifted: it goes into the audit log.')
 		.max(500, 'At most 500 characters.')
