@@ -47,7 +47,7 @@ test('a trainee opens a course, reads a lesson, uses its calculator, marks it do
 	await page.goto('/courses');
 	await page.getByRole('link', { name: 'Point-repair installer', exact: true }).click();
 	await expect(page).toHaveURL(COURSE);
-	await expect(page.getByRole('heading', { level: 2, name: 'What the certificate proves' })).toBeVisible();
+	await expect(page.getByRole('heading', { level: 2, name: 'What the certificate will prove' })).toBeVisible();
 	const before = await lessonsDone(page, 'Point-repair installer');
 
 	await page.getByRole('link', { name: /^5 Resin quantity/ }).click();
