@@ -30,6 +30,9 @@ export const actionLabels: Record<string, string> = {
 	'membership.set': 'Company membership set',
 	'password.reset': 'Password reset',
 	'user.sign-up': 'Account created',
+	'user.address-confirmed': 'E-mail address confirmed',
+	'user.signed-out-everywhere': 'Signed out everywhere',
+	'role.trainer-scope': 'Trainer’s crew set',
 	'test.start': 'Course test started',
 	'test.submit': 'Course test submitted',
 	'test.wait-waived': 'Wait before a retake lifted'
@@ -53,6 +56,11 @@ const phrases: Record<string, Phrase> = {
 		`${actor} made ${subject} ${e.detail.role === 'admin' ? 'a company admin' : 'a crew member'}${e.company ? ` of ${e.company}` : ''}.`,
 	'password.reset': (_e, _actor, subject) => `${subject} chose a new password through a reset link.`,
 	'user.sign-up': (_e, _actor, subject) => `${subject} created an account.`,
+	'user.address-confirmed': (_e, _actor, subject) => `${subject} confirmed their e-mail address.`,
+	'user.signed-out-everywhere': (e, actor, subject) =>
+		`${actor} signed ${subject} out everywhere (${typeof e.detail.sessions === 'number' ? e.detail.sessions : 'all'} ${e.detail.sessions === 1 ? 'session' : 'sessions'} ended).`,
+	'role.trainer-scope': (e, actor, subject) =>
+		e.detail.companyId ? `${actor} limited ${subject} as a trainer to one company’s crew${e.company ? ` (${e.company})` : ''}.` : `${actor} let ${subject} train everyone.`,
 	'test.start': (e, _actor, subject, course) => `${subject} started attempt ${text(e.detail.attempt) || ''} of the ${course} course test.`.replace('attempt  of', 'an attempt of'),
 	'test.submit': (e, actor, subject, course) => {
 		const score = typeof e.detail.scorePercent === 'number' ? `${e.detail.scorePercent} %` : 'a score';

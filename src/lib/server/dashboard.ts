@@ -34,9 +34,9 @@ export async function traineeStandings(userId: string, db: DB = defaultDb): Prom
 	);
 }
 
-/** For a trainer or registrar: trainees waiting to retake, tests in progress, tests submitted in the last 7 days. */
-export async function trainerDesk(now = new Date(), db: DB = defaultDb) {
-	const rows = await listAttemptsForStaff({ db, now });
+/** For a trainer or registrar (within their trainer scope): trainees waiting to retake, tests in progress, tests submitted in the last 7 days. */
+export async function trainerDesk(viewerId: string, now = new Date(), db: DB = defaultDb) {
+	const rows = await listAttemptsForStaff(viewerId, { db, now });
 	const weekAgo = new Date(now.getTime() - 7 * 86_400_000).toISOString();
 	return {
 		waiting: rows.filter((r) => r.canWaiveWait).length,

@@ -21,7 +21,7 @@ export const load: PageServerLoad = async (event) => {
 				};
 			})
 		),
-		staff ? trainerDesk() : null,
+		staff ? trainerDesk(user.id) : null,
 		user.roles.includes('registrar') ? registrarCounts() : null
 	]);
 	return { standings, companies, desk, counts };
