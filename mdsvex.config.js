@@ -32,8 +32,11 @@ const config = {
 	rehypePlugins: [rehypeKatex, rehypeEscapeKatexBraces],
 	highlight: {
 		highlighter: async (code, lang = 'text') => {
+			// The HTML goes into a template literal: a backslash in the code (a shell line
+			// continuation) must stay a backslash, or the server and the browser read the
+			// literal differently and hydration fails.
 			const html = escapeSvelte(
-				await codeToHtml(code, { lang, theme: 'github-light' })
+				(await codeToHtml(code, { lang, theme: 'github-light' })).replace(/\\/g, '&#92;')
 			);
 			return `{@html \`${html}\` }`;
 		}

@@ -35,3 +35,14 @@ export function isCompanyAdmin(identity: Identity | null | undefined, companyId?
 		identity.companies.some((c) => c.role === 'admin' && (companyId === undefined || c.id === companyId))
 	);
 }
+
+/**
+ * The parts a person actually plays, in words: "Trainee" only when enrolled in a course
+ * (everyone may train, but an inspector who takes no course is not a trainee), then the
+ * platform roles, then the company parts.
+ */
+export function workingRoles(person: { roles: Role[]; companies?: CompanyMembership[] }, enrolled: boolean): string[] {
+	const parts = person.roles.filter((r) => r !== 'trainee' || enrolled).map((r) => roleLabels[r]);
+	for (const c of person.companies ?? []) parts.push(`${c.role === 'admin' ? 'Company admin' : 'Crew member'} at ${c.name}`);
+	return parts;
+}

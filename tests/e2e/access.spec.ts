@@ -22,6 +22,8 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/company', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
 	['/registrar/people', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/registrar/audit', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	['/registrar/audit?person=%25&action=__proto__&from=2026-99-99&before=-1', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	['/registrar/audit/audit.csv', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/api/v1/health', 'ok'],
 	['/api/v1/me', { anonymous: 401, other: 'ok' }],
 	['/no-such-page', 404],
@@ -100,6 +102,7 @@ for (const identity of identities) {
 }
 
 test('the registrar grants a role, the person gains the page, and the audit log shows it', async ({ page, browser }) => {
+	test.slow(); // three people and four pages; slow on a loaded machine
 	const person = 'priya@brindlewick.test';
 	const registrar = await newRequest.newContext({ baseURL });
 	await signInRequest(registrar, who.registrar);
@@ -110,15 +113,15 @@ test('the registrar grants a role, the person gains the page, and the audit log 
 	await page.context().addCookies((await registrar.storageState()).cookies);
 	await page.goto(`/registrar/people?q=priya`);
 	await page.getByRole('button', { name: `Grant Trainer for ${person}` }).click();
-	await expect(page.getByRole('status')).toContainText('Granted trainer');
+	await expect(page.getByRole('status')).toContainText('Granted the trainer role to Priya Venn (priya@brindlewick.test).');
 	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(200);
 
 	await page.goto('/registrar/audit');
-	await expect(page.getByRole('row').filter({ hasText: 'role.grant' }).first()).toContainText('trainer');
+	await expect(page.locator('[data-action="role.grant"]').first()).toContainText('Rowan Ashdown (registrar@fenmoor.test) granted the trainer role to Priya Venn (priya@brindlewick.test).');
 
 	await page.goto(`/registrar/people?q=priya`);
 	await page.getByRole('button', { name: `Remove Trainer for ${person}` }).click();
-	await expect(page.getByRole('status')).toContainText('Removed trainer');
+	await expect(page.getByRole('status')).toContainText('Removed the trainer role from Priya Venn');
 	// Removing a role ends the person's sessions: whatever was open with it is closed.
 	const after = await priya.get('/trainer', { maxRedirects: 0 });
 	expect(after.status()).toBe(303);
@@ -128,6 +131,66 @@ test('the registrar grants a role, the person gains the page, and the audit log 
 	await registrar.dispose();
 	await priya.dispose();
 	void browser;
+});
+
+test('the registrar is not offered to remove their own registrar role, and sees who they are', async ({ page }) => {
+	await signInRequest(page.request, who.registrar);
+	await page.goto(`/registrar/people?q=${encodeURIComponent(who.registrar)}`);
+	const me = page.getByTestId('person').filter({ hasText: who.registrar });
+	await expect(me).toContainText('(you)');
+	await expect(me).toContainText('Registrar (yours)');
+	await expect(me.getByRole('button', { name: `Remove Registrar for ${who.registrar}` })).toHaveCount(0);
+	// The inspector works as an inspector only: not listed as a trainee without a course.
+	await page.goto(`/registrar/people?q=${encodeURIComponent(who.inspector)}`);
+	await expect(page.getByTestId('works-as')).toHaveText('Works as: Inspector');
+});
+
+test('the audit log filters by person, action and date, pages, and exports CSV', async ({ page }) => {
+	test.slow();
+	await signInRequest(page.request, who.registrar);
+	await page.goto('/registrar/audit');
+	await page.getByLabel('Person (name or e-mail)').fill('sam@brindlewick.test');
+	await page.getByLabel('Action').selectOption('enrolment.create');
+	await page.getByRole('button', { name: 'Show' }).click();
+	const entries = page.getByTestId('audit-entry');
+	await expect(entries.first()).toBeVisible();
+	for (const text of await entries.allTextContents()) expect(text).toMatch(/enrolled Sam Okafor \(sam@brindlewick.test\) in /);
+	// Times are in the reader's zone; the UTC value stays in the datetime attribute.
+	await expect(entries.first().locator('time')).toHaveAttribute('datetime', /^\d{4}-\d{2}-\d{2}T.*Z$/);
+	const today = new Date().toISOString().slice(0, 10);
+	await page.getByLabel('To (date, UTC)').fill('2000-01-01');
+	await page.getByRole('button', { name: 'Show' }).click();
+	await expect(page.getByText('No entry matches these filters.')).toBeVisible();
+
+	const csv = await page.request.get(`/registrar/audit/audit.csv?person=sam%40brindlewick.test&action=enrolment.create&from=${today}`);
+	expect(csv.headers()['content-type']).toContain('text/csv');
+	const lines = (await csv.text()).trim().split(/\r?\n/);
+	expect(lines[0]).toContain('what happened');
+	expect(lines.length).toBeGreaterThan(1);
+	expect(lines[1]).toContain('enrolled Sam Okafor');
+
+	// Paging goes by entry: the page after the newest one starts with the one before it.
+	await page.goto('/registrar/audit');
+	const newest = Number(await entries.first().getAttribute('data-id'));
+	await page.goto(`/registrar/audit?before=${newest}`);
+	await expect(entries.first()).toHaveAttribute('data-id', String(newest - 1));
+	await expect(page.getByRole('link', { name: 'Newest entries' })).toBeVisible();
+
+	// Lifting a wait needs a reason and a confirmation, even from a script.
+	const refused = await page.request.post('/trainer/attempts?/allowRetake', {
+		form: { attemptId: 'any' },
+		headers: { origin: baseURL, accept: 'application/json' }
+	});
+	const body = await refused.json();
+	expect(body).toMatchObject({ type: 'failure', status: 400 });
+	expect(JSON.stringify(body.data)).toContain('it goes into the audit log');
+	expect(JSON.stringify(body.data)).toContain('Tick the box to confirm');
+
+	// Only a registrar may export.
+	const trainee = await newRequest.newContext({ baseURL });
+	await signInRequest(trainee, who.trainee);
+	expect((await trainee.get('/registrar/audit/audit.csv', { maxRedirects: 0 })).status()).toBe(403);
+	await trainee.dispose();
 });
 
 test('a role change with a forged person id is refused with a clear message', async () => {
@@ -166,6 +229,7 @@ test('only a registrar can sign someone out everywhere', async () => {
 });
 
 test('the registrar enrols a person in a course, recorded in the audit log', async ({ page }) => {
+	test.slow();
 	await page.context().addCookies(await (async () => {
 		const registrar = await newRequest.newContext({ baseURL });
 		await signInRequest(registrar, who.registrar);
@@ -191,10 +255,10 @@ test('the registrar enrols a person in a course, recorded in the audit log', asy
 	await expect(person).toContainText('Enrolled: no course');
 	await person.getByLabel(`Course to enrol ${email} in`).selectOption('transition-patches');
 	await person.getByRole('button', { name: `Enrol ${email}` }).click();
-	await expect(page.getByRole('status')).toContainText('Enrolled.');
+	await expect(page.getByRole('status')).toContainText('Enrolled Enrol Me in');
 	await expect(person).toContainText('Enrolled: TP-200');
 	await page.goto('/registrar/audit');
-	await expect(page.getByRole('row').filter({ hasText: 'enrolment.create' }).first()).toContainText('transition-patches');
+	await expect(page.locator('[data-action="enrolment.create"]').first()).toContainText(`enrolled Enrol Me (${email}) in Transition patches`);
 });
 
 test("a company's own trainer works with that company's crew only; the provider's trainer with everyone", async () => {

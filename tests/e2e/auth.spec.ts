@@ -3,12 +3,23 @@ import { firstLink, latestMail, signInWithPassword, who } from './support';
 
 test.describe('signing up and in', () => {
 	test('sign up without a password, follow the e-mailed link, land signed in', async ({ page, request }) => {
+		test.slow(); // two sign-ups and an e-mail round trip
 		const email = `new-${Date.now()}@example.test`;
+		const problems: string[] = [];
+		page.on('console', (m) => m.type() === 'error' && problems.push(m.text()));
+		page.on('request', (r) => r.url().includes('/auth/verify-request') && problems.push(r.url()));
 		await page.goto('/sign-up');
 		await page.getByLabel('Your name').fill('Casey Newhire');
+		// A first try with an address that has an account is refused...
+		await page.getByLabel('E-mail address').fill(who.trainee);
+		await page.getByRole('button', { name: 'Create account' }).click();
+		await expect(page.getByText('already has an account').first()).toBeVisible();
+		// ...and the refusal is gone the moment the corrected form is sent.
 		await page.getByLabel('E-mail address').fill(email);
 		await page.getByRole('button', { name: 'Create account' }).click();
+		await expect(page.getByText('already has an account')).toHaveCount(0, { timeout: 500 });
 		await expect(page.getByRole('heading', { name: 'Check your e-mail' })).toBeVisible();
+		expect(problems).toEqual([]);
 
 		const mail = await latestMail(request, email, /sign-in link/);
 		await page.goto(firstLink(mail.text, '/auth/callback/nodemailer'));

@@ -70,15 +70,26 @@ async function startAttempt(page: Page, n: number): Promise<string> {
 	return body.attempt.id;
 }
 
-test('a trainee practises: a wrong answer shows the worked solution, a right one starts a streak', async ({ page }) => {
+test('a trainee practises: a wrong answer shows the worked solution, a right one starts a clean run', async ({ page }) => {
 	await signInRequest(page.request, TRAINEE);
 	await page.goto(`/courses/${COURSE}/practice`);
 	await expect(page.locator('[data-ready="true"]')).toBeVisible();
 
 	let problem = page.waitForResponse((r) => r.url().includes('/api/v1/practice/end-thrust?seed='));
-	await page.getByLabel('Topic').selectOption('end-thrust');
+	await page.getByLabel('Topic').selectOption('End thrust');
 	const first: Problem = await (await problem).json();
 	await expect(page.getByTestId('prompt')).toHaveText(first.prompt);
+	// One name per topic: the picker, the problem card and the record say the same words.
+	await expect(page.getByLabel('Topic').locator('option:checked')).toHaveText('End thrust');
+	await expect(page.getByTestId('problem-topic')).toHaveText('End thrust');
+	await expect(page.getByRole('complementary')).toContainText('End thrust');
+
+	// An impossible sign is refused with the reason, and is not counted.
+	await page.getByLabel('Your answer').fill('-5');
+	await expect(page.getByTestId('input-notice')).toHaveText('A force here cannot be negative: type it without the minus sign.');
+	await page.getByRole('button', { name: 'Check' }).click();
+	await expect(page.getByText('Check your answer')).toBeVisible();
+	await page.getByRole('button', { name: 'Try again' }).click();
 	await page.getByLabel('Your answer').fill(String(expectedAmount(first).value * 10));
 	await page.getByRole('button', { name: 'Check' }).click();
 	const feedback = page.getByTestId('feedback');
@@ -93,7 +104,7 @@ test('a trainee practises: a wrong answer shows the worked solution, a right one
 	await page.getByLabel('Your answer').fill(String(right.value));
 	await page.getByRole('button', { name: 'Check' }).click();
 	await expect(feedback).toContainText('Right');
-	await expect(page.getByText('Streak 1', { exact: true })).toBeVisible();
+	await expect(page.getByText('Clean run: 1 right in a row', { exact: true })).toBeVisible();
 
 	// The record stays on the device, and says that practice does not count.
 	await page.reload();
@@ -151,12 +162,19 @@ test('the trainee fails the course test, waits, and passes', async ({ page }) =>
 	const trainerPage = await staff.newPage();
 	await signInRequest(trainerPage.request, who.trainer);
 	await trainerPage.goto(`/trainer/attempts?course=${COURSE}`);
-	await trainerPage.getByRole('button', { name: `Allow a retake now for ${TRAINEE}` }).click();
-	await expect(trainerPage.getByRole('status')).toContainText('may start the next attempt now');
+	await trainerPage.getByText('Allow a retake now…').click();
+	const lift = trainerPage.getByTestId('lift-wait');
+	// Without a reason and a confirmation nothing changes.
+	await lift.getByRole('button', { name: /^Lift the wait for/ }).click();
+	await expect(lift.getByRole('textbox')).toHaveJSProperty('validity.valueMissing', true);
+	await lift.getByRole('textbox').fill('Fire alarm ended the first attempt early');
+	await lift.getByRole('checkbox').check();
+	await lift.getByRole('button', { name: /^Lift the wait for/ }).click();
+	await expect(trainerPage.getByRole('status')).toContainText(/may start the next attempt of .* now/);
 	await staff.close();
 	const registrar = await newRequest.newContext({ baseURL });
 	await signInRequest(registrar, who.registrar);
-	expect(await (await registrar.get('/registrar/audit')).text()).toContain('test.wait-waived');
+	expect(await (await registrar.get('/registrar/audit')).text()).toContain('Fire alarm ended the first attempt early');
 	await registrar.dispose();
 
 	// The second attempt: every item answered right through the runner.
@@ -176,6 +194,37 @@ test('the trainee fails the course test, waits, and passes', async ({ page }) =>
 
 	await page.goto(`/courses/${COURSE}/test`);
 	await expect(page.getByText('You have passed this test.')).toBeVisible();
+
+	// The dashboard's next step after passing is the practical skills, not lessons still unread.
+	await page.goto('/dashboard');
+	const course = page.getByTestId('trainee-course').filter({ hasText: 'Packer pressure and site safety' });
+	await expect(course).toHaveAttribute('data-step', 'sign-offs');
+	await expect(course).toContainText('Course test passed');
+	await expect(course).not.toContainText('lessons done');
+	await expect(course.getByRole('link', { name: 'See the practical skills' })).toBeVisible();
+});
+
+test('the course test says what is wrong with a typed number before saving it, as practice does', async ({ page }) => {
+	await signInRequest(page.request, 'finn@tarnside.test');
+	const started = await page.request.post(`/api/v1/courses/${COURSE}/attempts`, { data: {} });
+	expect(started.ok()).toBe(true);
+	const view = await (await page.request.get(`/api/v1/attempts/${(await started.json()).attempt.id}`)).json();
+	const numeric = (view.items as { position: number; kind: string; unit: string }[]).find((i) => i.kind === 'numeric' && i.unit !== '')!;
+	await page.goto(`/courses/${COURSE}/test`);
+	await page.getByRole('button', { name: `Question ${numeric.position + 1}, not answered` }).click();
+	const card = page.locator('[data-position]');
+	await card.locator('input[type=text]').fill('1,454');
+	await expect(card.getByTestId('input-notice')).toContainText('could mean a decimal or thousands');
+	await expect(card.getByTestId('input-notice')).toContainText('Not saved until it reads as a number.');
+	await expect(card.getByTestId('input-notice')).toHaveAttribute('data-kind', 'unreadable');
+	await page.waitForTimeout(1200); // longer than the typing pause before a save
+	await expect(page.getByTestId('save-state')).toHaveText('');
+	await expect(page.getByRole('button', { name: `Question ${numeric.position + 1}, not answered` })).toBeVisible();
+	// A readable number far outside any job is saved, with the same warning practice gives; nothing says if it is right.
+	await card.locator('input[type=text]').fill('99999999');
+	await expect(card.getByTestId('input-notice')).toContainText('which no job here needs');
+	await expect(page.getByTestId('save-state')).toHaveText('Saved');
+	await expect(card).not.toContainText(/right|wrong|correct/i);
 });
 
 test('a trainer sees the attempts and the item statistics', async ({ page }) => {
@@ -191,6 +240,9 @@ test('a trainer sees the attempts and the item statistics', async ({ page }) => 
 
 	await rows.first().getByRole('link', { name: 'Answers' }).click();
 	await expect(page.getByTestId('review-item')).toHaveCount(20);
+	// The trainer reads whose answers these are, not "Your answer".
+	await expect(page.getByTestId('review-item').first()).toContainText('Ade Kowal’s answer');
+	await expect(page.getByText('Your answer')).toHaveCount(0);
 
 	await page.goto(`/trainer/attempts/items?course=${COURSE}`);
 	await expect(page.getByTestId('attempt-count')).toHaveText('2');

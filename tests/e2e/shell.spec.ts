@@ -22,10 +22,12 @@ test('no page requests anything from another origin', async ({ page }) => {
 	expect(fonts.join(',')).toContain('Lora');
 });
 
-test('the About page is rendered from Markdown with highlighted code', async ({ page }) => {
+test('the About page speaks to crews: what works today, no code', async ({ page }) => {
 	await page.goto('/about');
 	await expect(page.getByRole('heading', { level: 1, name: 'About Patchwright' })).toBeVisible();
-	await expect(page.locator('pre.shiki')).toContainText('/api/v1/calculations/end-thrust');
+	await expect(page.getByTestId('capabilities')).toContainText('Course test');
+	await expect(page.getByTestId('capabilities')).toContainText('Not issued by Patchwright yet');
+	await expect(page.locator('main pre, main code')).toHaveCount(0);
 });
 
 test('at phone width every dashboard is usable and the menu opens', async ({ page }) => {
@@ -45,4 +47,13 @@ test('unknown pages get a friendly 404', async ({ page }) => {
 	const response = await page.goto('/no-such-page');
 	expect(response?.status()).toBe(404);
 	await expect(page.getByRole('heading', { name: 'We could not find that page' })).toBeVisible();
+});
+
+test('the API page hydrates cleanly and keeps the backslash of a shell line continuation', async ({ page }) => {
+	const messages: string[] = [];
+	page.on('console', (m) => (m.type() === 'error' || m.type() === 'warning') && messages.push(m.text()));
+	await page.goto('/api-docs');
+	await page.waitForLoadState('networkidle');
+	await expect(page.locator('pre.shiki').filter({ hasText: 'curl' })).toContainText('\\');
+	expect(messages.filter((m) => /hydration/i.test(m))).toEqual([]);
 });

@@ -198,13 +198,14 @@ describe('course test attempts', () => {
 		await grantRole(null, trainer, 'trainer', db);
 		const rows = await listAttemptsForStaff(trainer, { db, now: later(HOUR), courseSlug: COURSE });
 		expect(rows[0]).toMatchObject({ id: first.id, canWaiveWait: true, person: { email: 'sam@example.test' } });
-		expect(await waiveWait(trainer, first.id, { db, now: later(HOUR) })).toEqual({ ok: true });
-		expect(await waiveWait(trainer, first.id, { db, now: later(HOUR) })).toMatchObject({ ok: false, status: 409 });
-		expect((await listAudit({ subjectId: first.id }, db)).map((e) => e.action)).toContain('test.wait-waived');
+		expect(await waiveWait(trainer, first.id, 'Sat the test while ill', { db, now: later(HOUR) })).toMatchObject({ ok: true, person: { email: 'sam@example.test' }, courseSlug: COURSE });
+		expect(await waiveWait(trainer, first.id, 'again', { db, now: later(HOUR) })).toMatchObject({ ok: false, status: 409 });
+		const waived = (await listAudit({ subjectId: first.id }, db)).find((e) => e.action === 'test.wait-waived');
+		expect(JSON.parse(waived!.detail)).toMatchObject({ reason: 'Sat the test while ill' });
 		const second = await startAttempt(sam, COURSE, { db, now: later(2 * HOUR) });
 		expect(second).toMatchObject({ ok: true, resumed: false });
 		expect((await testStatus(sam, COURSE, { db, now: later(2 * HOUR) }))?.attemptsUsed).toBe(1);
-		expect(await waiveWait(trainer, 'no-such-attempt', { db })).toMatchObject({ ok: false, status: 404 });
+		expect(await waiveWait(trainer, 'no-such-attempt', 'reason', { db })).toMatchObject({ ok: false, status: 404 });
 	});
 
 	it('refuses late answers and a late submit, grading what was saved in time', async () => {

@@ -7,7 +7,9 @@ import {
 	inputUnit,
 	offersUnitSwitch,
 	readInput,
-	resultUnits
+	resultUnits,
+	resultRows,
+	inputHelp
 } from './display';
 import { calculators } from './index';
 
@@ -40,7 +42,36 @@ describe('showing calculators in metric or imperial units', () => {
 	it('converts results of one unit, and leaves alone results already given in several units', () => {
 		expect(resultUnits(calculators['resin-quantity'], 'imperial')).toMatchObject({ resinKg: 'lb', matAreaM2: 'ft2' });
 		expect(resultUnits(calculators['end-thrust'], 'imperial')).toEqual({ forceKN: 'kN', forceKgf: 'kgf', forceLbf: 'lbf' });
-		expect(resultUnits(calculators['f1216-partial'], 'metric')).toMatchObject({ thicknessIn: 'in', thicknessMm: 'mm' });
+		expect(resultUnits(calculators['f1216-partial'], 'metric')).toMatchObject({ thicknessIn: 'in', thicknessMm: 'mm', thicknessBucklingIn: 'mm' });
+	});
+
+	it('lists a result given in several units once, led by the unit of the system shown', () => {
+		const metric = resultRows(calculators['f1216-partial'], 'metric');
+		expect(metric.filter((r) => r.label === 'Wall thickness')).toEqual([
+			{ label: 'Wall thickness', primary: { name: 'thicknessMm', unit: 'mm' }, also: [{ name: 'thicknessIn', unit: 'in' }] }
+		]);
+		expect(metric.find((r) => r.primary.name === 'thicknessBendingIn')?.primary.unit).toBe('mm');
+		const imperial = resultRows(calculators['f1216-full'], 'imperial');
+		expect(imperial.filter((r) => r.label === 'Wall thickness').map((r) => r.primary.unit)).toEqual(['in']);
+		expect(resultRows(calculators['end-thrust'], 'metric')).toHaveLength(1);
+		for (const def of Object.values(calculators)) {
+			const labels = resultRows(def, 'metric').map((r) => r.label);
+			expect(new Set(labels).size, def.id).toBe(labels.length);
+		}
+	});
+
+	it('words an input’s help for the system shown', () => {
+		const pressure = calculators['f1216-partial'].inputs.find((s) => s.name === 'pressurePsi')!;
+		expect(inputHelp(pressure, 'metric')).toContain('kPa per metre');
+		expect(inputHelp(pressure, 'imperial')).toContain('psi per foot');
+		// No help line quotes a unit of the other system alone.
+		for (const def of Object.values(calculators)) {
+			for (const spec of def.inputs) {
+				const outside = (system: 'metric' | 'imperial') => (inputHelp(spec, system) ?? '').replace(/\([^)]*\)/g, '');
+				expect(outside('metric'), `${def.id}.${spec.name}`).not.toMatch(/\d ?(psi|in|ft)\b/);
+				expect(outside('imperial'), `${def.id}.${spec.name}`).not.toMatch(/\d ?(mm|kPa|MPa|bar|m)\b/);
+			}
+		}
 	});
 
 	it('offers a unit switch only where it changes something', () => {

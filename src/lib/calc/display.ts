@@ -4,7 +4,7 @@
  * computes in the units its InputSpec and ResultSpec state.
  */
 import type { CalculatorDef, InputSpec, ResultValue } from './types';
-import { convert, displayUnit, quantityOf, type UnitSystem } from './units';
+import { convert, displayUnit, quantityOf, systemOf, type UnitSystem } from './units';
 import { isNumericText, rangeMessage } from './validate';
 import { num, plain } from './worksheet';
 
@@ -13,22 +13,48 @@ export function inputUnit(spec: InputSpec, system: UnitSystem): string {
 	return spec.choices ? spec.unit : displayUnit(spec.unit, system);
 }
 
+/** One line of results: a value in the unit of the system shown, and the same value in other units. */
+export interface ResultRow {
+	label: string;
+	/** The result shown first, and the unit it is shown in. */
+	primary: { name: string; unit: string };
+	/** The same quantity as the calculator also gives it, in its own units ("4.8 mm" beside "0.19 in"). */
+	also: { name: string; unit: string }[];
+}
+
 /**
- * The unit each result is shown in. Results the calculator already gives in several units of
- * one quantity (kN, kgf and lbf; in and mm) are shown as they are.
+ * How results are listed: results that a calculator gives under one label in several units
+ * (wall thickness in in and mm; thrust in kN, kgf and lbf) become one line led by the unit of
+ * the system shown; every other result is converted into that system.
  */
-export function resultUnits(def: CalculatorDef, system: UnitSystem): Record<string, string> {
-	const unitsByQuantity = new Map<string, Set<string>>();
+export function resultRows(def: CalculatorDef, system: UnitSystem): ResultRow[] {
+	const groups = new Map<string, CalculatorDef['results']>();
 	for (const r of def.results) {
-		const q = quantityOf(r.unit) ?? r.unit;
-		unitsByQuantity.set(q, (unitsByQuantity.get(q) ?? new Set()).add(r.unit));
+		const key = `${r.label}\u0000${quantityOf(r.unit) ?? r.unit}`;
+		groups.set(key, [...(groups.get(key) ?? []), r]);
 	}
-	return Object.fromEntries(
-		def.results.map((r) => {
-			const mixed = (unitsByQuantity.get(quantityOf(r.unit) ?? r.unit)?.size ?? 0) > 1;
-			return [r.name, mixed ? r.unit : displayUnit(r.unit, system)];
-		})
-	);
+	return [...groups.values()].map((members) => {
+		if (members.length === 1) {
+			const [r] = members;
+			return { label: r.label, primary: { name: r.name, unit: displayUnit(r.unit, system) }, also: [] };
+		}
+		const lead = members.find((m) => systemOf(m.unit) === system) ?? members.find((m) => systemOf(m.unit) === undefined) ?? members[0];
+		return {
+			label: lead.label,
+			primary: { name: lead.name, unit: lead.unit },
+			also: members.filter((m) => m !== lead).map((m) => ({ name: m.name, unit: m.unit }))
+		};
+	});
+}
+
+/** The unit each result is shown in (see resultRows). */
+export function resultUnits(def: CalculatorDef, system: UnitSystem): Record<string, string> {
+	return Object.fromEntries(resultRows(def, system).flatMap((row) => [row.primary, ...row.also].map((r) => [r.name, r.unit])));
+}
+
+/** An input's help line for the system shown: `helpBySystem` when the calculator words it per system. */
+export function inputHelp(spec: InputSpec, system: UnitSystem): string | undefined {
+	return spec.helpBySystem?.[system] ?? spec.help;
 }
 
 /** Whether a metric/imperial switch would change anything for this calculator. */

@@ -161,7 +161,8 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 			min: 0,
 			max: 50,
 			step: 0.01,
-			help: '0.433 psi per foot of water above the invert.'
+			help: '0.433 psi per foot of water above the invert.',
+			helpBySystem: { metric: '9.81 kPa per metre of water above the invert.' }
 		},
 		commonInputs.ovalityPercent,
 		commonInputs.longTermModulusPsi,
@@ -177,7 +178,8 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 			max: 20000,
 			step: 50,
 			optional: true,
-			help: 'For the oval-pipe bending check. Default: half the 4500 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.'
+			help: 'For the oval-pipe bending check. Default: half the 4500 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.',
+			helpBySystem: { metric: 'For the oval-pipe bending check. Default: half the 31 MPa (4500 psi) felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.' }
 		}
 	],
 	results: [

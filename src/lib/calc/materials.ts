@@ -190,7 +190,8 @@ export const matSizeCalculator: CalculatorDef<MatSizeInputs> = {
 			min: 100,
 			max: 6000,
 			step: 10,
-			help: 'Defect length plus at least 150 mm at each end.'
+			help: 'Defect length plus at least 150 mm at each end.',
+			helpBySystem: { imperial: 'Defect length plus at least 6 in (150 mm) at each end.' }
 		}
 	],
 	results: [

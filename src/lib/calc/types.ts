@@ -18,6 +18,8 @@ export interface InputSpec {
 	choiceLabels?: string[];
 	/** One short line of guidance shown under the field. */
 	help?: string;
+	/** The help line worded for each system, where it quotes units ("0.433 psi per foot"). */
+	helpBySystem?: Partial<Record<UnitSystem, string>>;
 }
 
 export interface ResultSpec {

@@ -28,7 +28,8 @@ export type NumericOutcome =
 	| 'not-a-number'
 	| 'missing-unit'
 	| 'unknown-unit'
-	| 'wrong-quantity';
+	| 'wrong-quantity'
+	| 'impossible-sign';
 
 export interface NumericGrade {
 	correct: boolean;
@@ -96,6 +97,72 @@ export function readNumber(value: unknown, unit = ''): ReadNumber {
 	return { ok: true, value: Number(normalised) };
 }
 
+/** Quantities that cannot be below zero on this job (temperatures and plain numbers can). */
+const NEVER_NEGATIVE: Partial<Record<Quantity, string>> = {
+	length: 'A length',
+	area: 'An area',
+	volume: 'A volume',
+	mass: 'A mass',
+	pressure: 'A pressure here (gauge pressure in a packer or a pipe)',
+	force: 'A force here',
+	time: 'A time'
+};
+
+/**
+ * The span of values, in the SI base of each quantity, that any answer on a point-repair job
+ * can plausibly take. Deliberately wide (a factor of ten or more beyond every answer the
+ * problems ask for, checked by a test over every generator) so that a warning never hints at
+ * the right answer; outside it the number or the unit is almost surely a slip ("1454" typed
+ * with m where mm was meant). Common practice, no published source.
+ */
+const PLAUSIBLE: Partial<Record<Quantity, { min: number; max: number; small: string; large: string }>> = {
+	length: { min: 1e-5, max: 1000, small: 'less than 0.01 mm', large: 'more than 1 km' },
+	area: { min: 1e-6, max: 1e4, small: 'less than 1 mm²', large: 'more than 10 000 m²' },
+	volume: { min: 1e-7, max: 100, small: 'less than 0.1 mL', large: 'more than 100 m³' },
+	mass: { min: 1e-4, max: 1e4, small: 'less than 0.1 g', large: 'more than 10 tonnes' },
+	pressure: { min: 10, max: 1e7, small: 'less than 0.1 mbar', large: 'more than 100 bar' },
+	force: { min: 1, max: 1e7, small: 'less than 1 N', large: 'more than 10 MN' },
+	time: { min: 1, max: 30 * 86400, small: 'less than a second', large: 'more than 30 days' },
+	temperature: { min: 223.15, max: 473.15, small: 'below −50 °C', large: 'above 200 °C' }
+};
+
+export interface InputNotice {
+	/** unreadable: not a number as typed; sign: below zero where nothing can be; magnitude: far outside the job's range. */
+	kind: 'unreadable' | 'sign' | 'magnitude';
+	message: string;
+	/** True when the text cannot stand as an answer (it is not saved or checked as it is). */
+	blocking: boolean;
+}
+
+/**
+ * What to tell a person about a number while they type it, before it is checked or saved:
+ * ambiguous or unreadable text, an impossible sign, a magnitude far outside the job. It never
+ * depends on the right answer, so the course test can show it without revealing anything.
+ */
+export function inputNotice(value: unknown, unit: string): InputNotice | null {
+	const read = readNumber(value, unit);
+	if (!read.ok) return read.empty ? null : { kind: 'unreadable', message: read.message, blocking: true };
+	const code = resolveUnit(unit);
+	const quantity = code === undefined ? undefined : quantityOf(code);
+	if (code === undefined || quantity === undefined) return null;
+	const label = unitLabel(code);
+	const what = NEVER_NEGATIVE[quantity];
+	if (read.value < 0 && what) {
+		return { kind: 'sign', message: `${what} cannot be negative: type it without the minus sign.`, blocking: true };
+	}
+	const span = PLAUSIBLE[quantity];
+	if (!span || read.value === 0) return null;
+	const base = quantity === 'temperature' ? convert(read.value, code, 'K') : convert(Math.abs(read.value), code, baseUnitOf(quantity));
+	if (base >= span.min && base <= span.max) return null;
+	const beyond = base < span.min ? span.small : span.large;
+	return { kind: 'magnitude', message: `${num(read.value, 4)} ${label} is ${beyond}, which no job here needs: check the number and the unit.`, blocking: false };
+}
+
+function baseUnitOf(quantity: Quantity): string {
+	const bases: Partial<Record<Quantity, string>> = { length: 'm', area: 'm2', volume: 'm3', mass: 'kg', pressure: 'Pa', force: 'N', time: 's', temperature: 'K' };
+	return bases[quantity] ?? '';
+}
+
 /** Whether `value` lies within `tolerancePercent` of `expected`, bounds included. */
 export function withinTolerance(value: number, expected: number, tolerancePercent: number): boolean {
 	const allowed = (Math.abs(expected) * tolerancePercent) / 100;
@@ -144,6 +211,9 @@ export function gradeNumeric(expected: Amount, answer: TypedAnswer | null | unde
 			outcome: 'wrong-quantity',
 			message: `${unitLabel(code) || 'A plain number'} measures ${quantityWord(quantity)}; this asks for ${quantityWord(expectedQuantity)} in ${unitLabel(expected.unit)}.`
 		};
+	}
+	if (read.value < 0 && NEVER_NEGATIVE[quantity!]) {
+		return { correct: false, outcome: 'impossible-sign', message: inputNotice(answer?.value, code)!.message };
 	}
 	const valueInUnit = convert(read.value, code, expected.unit);
 	const deviationPercent = expected.value === 0 ? (valueInUnit === 0 ? 0 : Infinity) : ((valueInUnit - expected.value) / Math.abs(expected.value)) * 100;

@@ -48,7 +48,7 @@ export class PracticeSession {
 	feedback = $state<CheckFeedback | null>(null);
 	busy = $state(false);
 	error = $state<string | null>(null);
-	/** A generator id, or 'all' for a mix of the course's own. */
+	/** A topic name (one name everywhere: picker, problem card, record), or 'all' for a mix of the course's own. */
 	focus = $state('all');
 	record = $state<StoredRecord>(structuredClone(EMPTY));
 
@@ -104,9 +104,9 @@ export class PracticeSession {
 	}
 
 	private pickGenerator(): string {
-		if (this.focus !== 'all') return this.focus;
 		const own = this.topics.filter((t) => !t.extra);
-		const pool = own.length > 0 ? own : this.topics;
+		const chosen = this.topics.filter((t) => t.topic === this.focus);
+		const pool = this.focus !== 'all' && chosen.length > 0 ? chosen : own.length > 0 ? own : this.topics;
 		const previous = this.problem?.generator;
 		const others = pool.length > 1 ? pool.filter((t) => t.id !== previous) : pool;
 		return others[Math.floor(Math.random() * others.length)].id;

@@ -552,11 +552,16 @@ export async function listAttemptsForStaff(
 }
 
 /**
- * Lets a trainee retake now instead of after the waiting time, recorded in the audit log.
- * Only for the latest attempt of a trainee who is waiting and in the actor's trainer scope;
- * the attempts allowed still apply.
+ * Lets a trainee retake now instead of after the waiting time, recorded in the audit log with
+ * the reason given. Only for the latest attempt of a trainee who is waiting and in the actor's
+ * trainer scope; the attempts allowed still apply.
  */
-export async function waiveWait(actorId: string, attemptId: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<{ ok: true } | Refusal> {
+export async function waiveWait(
+	actorId: string,
+	attemptId: string,
+	reason: string,
+	{ db = defaultDb, now = new Date() }: Options = {}
+): Promise<{ ok: true; person: { name: string | null; email: string }; courseSlug: string } | Refusal> {
 	return inTransaction(db, async (trx) => {
 		const row = await trx.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).executeTakeFirst();
 		if (!row || !(await trainerMaySee(actorId, row.user_id, trx))) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
@@ -570,9 +575,10 @@ export async function waiveWait(actorId: string, attemptId: string, { db = defau
 		}
 		await trx.updateTable('test_attempt').set({ wait_waived_at: now.toISOString(), wait_waived_by: actorId }).where('id', '=', row.id).execute();
 		await recordAudit(
-			{ actorId, action: 'test.wait-waived', subjectType: 'test_attempt', subjectId: row.id, detail: { userId: row.user_id, courseSlug: row.course_slug } },
+			{ actorId, action: 'test.wait-waived', subjectType: 'test_attempt', subjectId: row.id, detail: { userId: row.user_id, courseSlug: row.course_slug, reason } },
 			trx
 		);
-		return { ok: true };
+		const person = await trx.selectFrom('User').select(['name', 'email']).where('id', '=', row.user_id).executeTakeFirstOrThrow();
+		return { ok: true, person, courseSlug: row.course_slug };
 	});
 }

@@ -1,6 +1,7 @@
 import { parse } from 'yaml';
 import { z } from 'zod';
 import { courses } from '$lib/content';
+import { tradeTypography } from '$lib/practice/typography';
 
 /**
  * The fixed question banks, `content/courses/<slug>/questions.yaml`. Server-only: these
@@ -34,7 +35,16 @@ function loadBanks(): Map<string, FixedQuestion[]> {
 			const issue = parsed.error.issues[0];
 			throw new Error(`Bad question bank ${file}: ${issue.path.join('.')}: ${issue.message}`);
 		}
-		banks.set(course.slug, parsed.data.map((q) => ({ ...q, courseSlug: course.slug })));
+		banks.set(
+			course.slug,
+			parsed.data.map((q) => ({
+				...q,
+				prompt: tradeTypography(q.prompt),
+				explanation: tradeTypography(q.explanation),
+				...('options' in q ? { options: q.options.map(tradeTypography) } : {}),
+				courseSlug: course.slug
+			}) as FixedQuestion)
+		);
 	}
 	return banks;
 }

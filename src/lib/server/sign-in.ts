@@ -1,4 +1,4 @@
-import type { RequestEvent } from '@sveltejs/kit';
+import { isRedirect, redirect, type RequestEvent } from '@sveltejs/kit';
 import { signIn } from './auth';
 
 const DEFAULT_NEXT = '/dashboard';
@@ -32,6 +32,13 @@ export async function startSignIn(event: RequestEvent, fields: Record<string, st
 	headers.set('content-type', 'application/x-www-form-urlencoded');
 	headers.delete('content-length');
 	const request = new Request(event.request.url, { method: 'POST', headers, body });
-	await signIn({ ...event, request } as RequestEvent);
+	try {
+		await signIn({ ...event, request } as RequestEvent);
+	} catch (e) {
+		// Auth.js sends a link sign-in to its own /auth/verify-request, which only bounces to our
+		// page: a form enhanced in the browser would first try (and fail) to route there itself.
+		if (isRedirect(e) && new URL(e.location, event.url).pathname.endsWith('/verify-request')) redirect(303, '/sign-in/check-email');
+		throw e;
+	}
 	throw new Error('Auth.js did not redirect after sign-in.');
 }

@@ -1,18 +1,28 @@
 import { requireUser } from '$lib/server/authz';
-import { countPeople } from '$lib/server/users';
-import { listMembers } from '$lib/server/companies';
-import { listEnrolledProgress } from '$lib/server/progress';
+import { crewProgress, registrarCounts, traineeStandings, trainerDesk } from '$lib/server/dashboard';
 import type { PageServerLoad } from './$types';
 
+/** Each role's section of the dashboard, loaded only for the roles the person holds. */
 export const load: PageServerLoad = async (event) => {
 	const user = requireUser(event);
 	const adminOf = user.companies.filter((c) => c.role === 'admin');
-	const companies = await Promise.all(
-		adminOf.map(async (c) => ({ ...c, memberCount: (await listMembers(c.id)).length }))
-	);
-	return {
-		training: await listEnrolledProgress(user.id),
-		companies,
-		peopleCount: user.roles.includes('registrar') ? await countPeople() : null
-	};
+	const staff = user.roles.includes('trainer') || user.roles.includes('registrar');
+	const [standings, companies, desk, counts] = await Promise.all([
+		traineeStandings(user.id),
+		Promise.all(
+			adminOf.map(async (c) => {
+				const crew = await crewProgress(c.id);
+				return {
+					id: c.id,
+					name: c.name,
+					memberCount: crew.length,
+					enrolledCount: crew.filter((m) => m.courses.length > 0).length,
+					passedCount: crew.reduce((n, m) => n + m.courses.filter((k) => k.testPassed).length, 0)
+				};
+			})
+		),
+		staff ? trainerDesk(user.id) : null,
+		user.roles.includes('registrar') ? registrarCounts() : null
+	]);
+	return { standings, companies, desk, counts };
 };

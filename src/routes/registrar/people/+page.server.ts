@@ -5,6 +5,7 @@ import { enrolSchema, personSchema, roleChangeSchema, trainerScopeSchema } from 
 import { signOutEverywhere } from '$lib/server/sessions';
 import { enrol, enrolmentsByUser } from '$lib/server/enrolments';
 import { courses } from '$lib/content';
+import { roleLabels } from '$lib/roles';
 import { listCompanies } from '$lib/server/companies';
 import { grantRole, loadIdentity, revokeRole, rolesByUser, setTrainerScope } from '$lib/server/roles';
 import { trainerCompanies } from '$lib/server/trainer-scope';
@@ -12,13 +13,13 @@ import { searchUsers } from '$lib/server/users';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
-	requireRole(event, 'registrar');
+	const me = requireRole(event, 'registrar');
 	const q = (event.url.searchParams.get('q') ?? '').slice(0, 100);
 	const found = await searchUsers(q);
 	const ids = found.map((p) => p.id);
 	const [roles, enrolments, trainerFor, companies] = await Promise.all([rolesByUser(ids), enrolmentsByUser(ids), trainerCompanies(ids), listCompanies()]);
 	const people = found.map((p) => ({ ...p, roles: roles.get(p.id)!, enrolments: enrolments.get(p.id)!, trainerCompanyId: trainerFor.get(p.id) ?? null }));
-	return { q, people, companies, courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })) };
+	return { q, me: me.id, people, companies, courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })) };
 };
 
 async function change(event: Parameters<Actions[string]>[0], kind: 'grant' | 'revoke') {
@@ -26,12 +27,15 @@ async function change(event: Parameters<Actions[string]>[0], kind: 'grant' | 're
 	const parsed = await parseForm(event.request, roleChangeSchema);
 	if (!parsed.ok) return parsed.failure;
 	const { userId, role } = parsed.data;
-	if (!(await loadIdentity(userId))) error(404, 'No such person.');
+	const person = await loadIdentity(userId);
+	if (!person) error(404, 'No such person.');
 	if (kind === 'revoke' && userId === me.id && role === 'registrar') {
 		return failWith(409, parsed.form, 'You cannot remove your own registrar role: ask another registrar.');
 	}
 	await (kind === 'grant' ? grantRole(me.id, userId, role) : revokeRole(me.id, userId, role));
-	return { done: `${kind === 'grant' ? 'Granted' : 'Removed'} ${role}.` };
+	const whom = person.name ? `${person.name} (${person.email})` : person.email;
+	const label = roleLabels[role].toLowerCase();
+	return { done: kind === 'grant' ? `Granted the ${label} role to ${whom}.` : `Removed the ${label} role from ${whom}.` };
 }
 
 export const actions: Actions = {
@@ -39,9 +43,11 @@ export const actions: Actions = {
 		const me = requireRole(event, 'registrar');
 		const parsed = await parseForm(event.request, enrolSchema);
 		if (!parsed.ok) return parsed.failure;
-		if (!(await loadIdentity(parsed.data.userId))) error(404, 'No such person.');
+		const person = await loadIdentity(parsed.data.userId);
+		if (!person) error(404, 'No such person.');
 		await enrol(me.id, parsed.data.userId, parsed.data.course, 'registrar');
-		return { done: 'Enrolled.' };
+		const course = courses.find((c) => c.slug === parsed.data.course)?.title ?? parsed.data.course;
+		return { done: `Enrolled ${person.name ?? person.email} in ${course}.` };
 	},
 	signOutEverywhere: async (event) => {
 		const me = requireRole(event, 'registrar');
@@ -58,9 +64,11 @@ export const actions: Actions = {
 		const parsed = await parseForm(event.request, trainerScopeSchema);
 		if (!parsed.ok) return parsed.failure;
 		const { userId, companyId } = parsed.data;
-		if (!(await loadIdentity(userId))) error(404, 'No such person.');
+		const person = await loadIdentity(userId);
+		if (!person) error(404, 'No such person.');
 		if (!(await setTrainerScope(me.id, userId, companyId || null))) return failWith(400, parsed.form, 'Choose a company from the list.', { companyId: 'No such company' });
-		return { done: companyId ? 'This trainer now works with that company’s crew only.' : 'This trainer now works with everyone.' };
+		const whom = person.name ? `${person.name} (${person.email})` : person.email;
+		return { done: companyId ? `${whom} now works as a trainer with that company’s crew only.` : `${whom} now works as a trainer with everyone.` };
 	},
 	grant: (event) => change(event, 'grant'),
 	revoke: (event) => change(event, 'revoke')

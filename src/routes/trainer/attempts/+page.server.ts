@@ -19,7 +19,17 @@ export const load: PageServerLoad = async (event) => {
 	};
 };
 
-const retakeSchema = z.object({ attemptId: z.string().min(1).max(100) });
+const retakeSchema = z.object({
+	attemptId: z.string().min(1).max(100),
+	reason: z
+		.string({ error: 'Say in a few words why the wait is lifted: it goes into the audit log.' })
+		.trim()
+		.min(5, 'Say in a few words why the wait is lifted: it goes into the audit log.')
+		.max(500, 'At most 500 characters.')
+		// Control characters would garble the audit log and its CSV.
+		.refine((r) => !/[\u0000-\u0008\u000b-\u001f\u007f]/.test(r), 'Remove the control characters.'),
+	confirm: z.literal('yes', { error: 'Tick the box to confirm.' })
+});
 
 export const actions: Actions = {
 	/** Lifts the waiting time after a failed attempt; recorded in the audit log. */
@@ -27,8 +37,9 @@ export const actions: Actions = {
 		const me = requireRole(event, 'trainer', 'registrar');
 		const parsed = await parseForm(event.request, retakeSchema);
 		if (!parsed.ok) return parsed.failure;
-		const out = await waiveWait(me.id, parsed.data.attemptId);
+		const out = await waiveWait(me.id, parsed.data.attemptId, parsed.data.reason);
 		if (!out.ok) return failWith(out.status, parsed.form, out.message);
-		return { done: 'The trainee may start the next attempt now.' };
+		const course = getCourse(out.courseSlug)?.title ?? out.courseSlug;
+		return { done: `${out.person.name ?? out.person.email} may start the next attempt of ${course} now. Your reason is in the audit log.` };
 	}
 };
