@@ -17,6 +17,8 @@ import type { ProcessedFile } from './uploads';
  */
 
 export class SignOffError extends Error {
+	/** The submitted text fields, when a form should show them again. */
+	values: Record<string, string> = {};
 	constructor(
 		readonly status: 400 | 403 | 404 | 409,
 		message: string,
