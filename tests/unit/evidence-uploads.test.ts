@@ -38,7 +38,7 @@ afterEach(async () => db.destroy());
 function upload(files: { name: string; bytes: Buffer; type?: string }[], fields: Record<string, string> = { note: 'Wet-out on the rig.' }) {
 	const form = new FormData();
 	for (const [k, v] of Object.entries(fields)) form.append(k, v);
-	for (const f of files) form.append('photos', new File([f.bytes], f.name, { type: f.type ?? 'image/jpeg' }));
+	for (const f of files) form.append('photos', new File([new Uint8Array(f.bytes)], f.name, { type: f.type ?? 'image/jpeg' }));
 	return new Request('http://localhost/upload', { method: 'POST', body: form });
 }
 

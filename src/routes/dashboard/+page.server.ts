@@ -2,6 +2,7 @@ import { requireUser } from '$lib/server/authz';
 import { countPeople } from '$lib/server/users';
 import { listMembers } from '$lib/server/companies';
 import { listEnrolledProgress } from '$lib/server/progress';
+import { queueCount } from '$lib/server/sign-offs';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -13,6 +14,7 @@ export const load: PageServerLoad = async (event) => {
 	return {
 		training: await listEnrolledProgress(user.id),
 		companies,
-		peopleCount: user.roles.includes('registrar') ? await countPeople() : null
+		peopleCount: user.roles.includes('registrar') ? await countPeople() : null,
+		practicalQueue: user.roles.includes('trainer') ? await queueCount(user.id) : null
 	};
 };
