@@ -6,13 +6,17 @@ import { config } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
+import { seedDemoPracticals } from '$lib/server/demo-practicals';
 import { loadIdentity } from '$lib/server/roles';
 
 export const init: ServerInit = async () => {
 	// Prerendering during `vite build` runs this hook too; the build must not touch a database.
 	if (building) return;
 	await migrateToLatest(getDb());
-	if (config.seedDemo && (await seedDemo())) console.log('Seeded the demo scenario.');
+	if (config.seedDemo && (await seedDemo())) {
+		await seedDemoPracticals();
+		console.log('Seeded the demo scenario.');
+	}
 };
 
 const identity: Handle = async ({ event, resolve }) => {
