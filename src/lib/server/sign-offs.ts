@@ -8,6 +8,7 @@ import { recordAudit } from './audit';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { isUniqueViolation } from './db/errors';
 import { isEnrolled } from './enrolments';
+import { inTrainerScope, trainerMaySee, trainerScope, type TrainerScope } from './trainer-scope';
 import type { ProcessedFile } from './uploads';
 
 /**
@@ -67,29 +68,6 @@ function requireSkill(courseSlug: string, skillId: string) {
 	const found = findSkill(courseSlug, skillId);
 	if (!found) throw new SignOffError(404, 'No such practical skill.');
 	return found;
-}
-
-// ---------------------------------------------------------------------------------------------
-// Trainer scope. A trainer who belongs to a company assesses that company's crew only; a
-// trainer of the training provider (no company) assesses everyone.
-// ---------------------------------------------------------------------------------------------
-
-/** Company ids whose crew the trainer may assess, or null for everyone. */
-async function trainerCompanies(trainerId: string, db: DB): Promise<string[] | null> {
-	const rows = await db.selectFrom('membership').select('company_id').where('user_id', '=', trainerId).execute();
-	return rows.length === 0 ? null : rows.map((r) => r.company_id);
-}
-
-export async function trainerMayAssess(trainerId: string, traineeId: string, db: DB = defaultDb): Promise<boolean> {
-	const companies = await trainerCompanies(trainerId, db);
-	if (companies === null) return true;
-	const row = await db
-		.selectFrom('membership')
-		.select('user_id')
-		.where('user_id', '=', traineeId)
-		.where('company_id', 'in', companies)
-		.executeTakeFirst();
-	return !!row;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -476,7 +454,7 @@ export interface AssessmentResult {
 
 async function assertTrainerFor(trainerId: string, traineeId: string, db: DB): Promise<void> {
 	if (trainerId === traineeId) throw new SignOffError(403, 'You cannot assess your own practical.');
-	if (!(await trainerMayAssess(trainerId, traineeId, db))) throw new SignOffError(404, 'No such evidence.');
+	if (!(await trainerMaySee(trainerId, traineeId, db))) throw new SignOffError(404, 'No such evidence.');
 }
 
 async function recordAssessment(
@@ -655,15 +633,13 @@ export interface QueueEntry {
 	fileCount: number;
 }
 
-function queueQuery(trainerId: string, companies: string[] | null, filter: QueueFilter, db: DB) {
+function queueQuery(trainerId: string, scope: TrainerScope, filter: QueueFilter, db: DB) {
 	let query = db
 		.selectFrom('practical_submission as s')
 		.innerJoin('User as u', 'u.id', 's.trainee_id')
 		.where('s.status', '=', 'waiting')
-		.where('s.trainee_id', '!=', trainerId);
-	if (companies !== null) {
-		query = query.where('s.trainee_id', 'in', db.selectFrom('membership').select('user_id').where('company_id', 'in', companies));
-	}
+		.where('s.trainee_id', '!=', trainerId)
+		.where(inTrainerScope(scope, 's.trainee_id'));
 	if (filter.course) query = query.where('s.course_slug', '=', filter.course);
 	if (filter.company) query = query.where('s.trainee_id', 'in', db.selectFrom('membership').select('user_id').where('company_id', '=', filter.company));
 	if (filter.olderThanDays) query = query.where('s.submitted_at', '<=', new Date(Date.now() - filter.olderThanDays * 86_400_000).toISOString());
@@ -672,8 +648,7 @@ function queueQuery(trainerId: string, companies: string[] | null, filter: Queue
 
 /** Evidence waiting for this trainer, oldest first, within the trainer's scope and never their own. */
 export async function assessmentQueue(trainerId: string, filter: QueueFilter = {}, db: DB = defaultDb): Promise<QueueEntry[]> {
-	const companies = await trainerCompanies(trainerId, db);
-	const rows = await queueQuery(trainerId, companies, filter, db)
+	const rows = await queueQuery(trainerId, await trainerScope(trainerId, db), filter, db)
 		.select((eb) => [
 			's.id',
 			's.trainee_id',
@@ -714,25 +689,30 @@ export async function assessmentQueue(trainerId: string, filter: QueueFilter = {
 }
 
 export async function queueCount(trainerId: string, db: DB = defaultDb): Promise<number> {
-	const companies = await trainerCompanies(trainerId, db);
-	const row = await queueQuery(trainerId, companies, {}, db).select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirst();
+	const row = await queueQuery(trainerId, await trainerScope(trainerId, db), {}, db).select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirst();
 	return Number(row?.n ?? 0);
 }
 
 /** The companies a trainer's queue can be filtered by. */
 export async function queueCompanies(trainerId: string, db: DB = defaultDb) {
-	const companies = await trainerCompanies(trainerId, db);
+	const scope = await trainerScope(trainerId, db);
+	if (scope.kind === 'nobody') return [];
 	let query = db.selectFrom('company').select(['id', 'name']).orderBy('name');
-	if (companies !== null) query = query.where('id', 'in', companies);
+	if (scope.kind === 'companies') query = query.where('id', 'in', scope.companyIds);
 	return query.execute();
 }
 
 /** The people a trainer may assess in person (never themselves), for the picker. */
 export async function assessablePeople(trainerId: string, db: DB = defaultDb) {
-	const companies = await trainerCompanies(trainerId, db);
-	let query = db.selectFrom('User').select(['id', 'name', 'email']).where('id', '!=', trainerId).orderBy('name').limit(1000);
-	if (companies !== null) query = query.where('id', 'in', db.selectFrom('membership').select('user_id').where('company_id', 'in', companies));
-	return query.execute();
+	const scope = await trainerScope(trainerId, db);
+	return db
+		.selectFrom('User')
+		.select(['id', 'name', 'email'])
+		.where('id', '!=', trainerId)
+		.where(inTrainerScope(scope, 'User.id'))
+		.orderBy('name')
+		.limit(1000)
+		.execute();
 }
 
 export interface CrewSignOffCount {
@@ -778,7 +758,7 @@ export interface Viewer {
  */
 export async function mayViewEvidenceOf(viewer: Viewer, traineeId: string, db: DB = defaultDb): Promise<boolean> {
 	if (viewer.id === traineeId || viewer.roles.includes('registrar')) return true;
-	if (viewer.roles.includes('trainer') && (await trainerMayAssess(viewer.id, traineeId, db))) return true;
+	if (viewer.roles.includes('trainer') && (await trainerMaySee(viewer.id, traineeId, db))) return true;
 	const adminOf = viewer.companies.filter((c) => c.role === 'admin').map((c) => c.id);
 	if (adminOf.length === 0) return false;
 	const row = await db.selectFrom('membership').select('user_id').where('user_id', '=', traineeId).where('company_id', 'in', adminOf).executeTakeFirst();

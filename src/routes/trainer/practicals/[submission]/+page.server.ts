@@ -2,7 +2,8 @@ import { error, redirect } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/authz';
 import { assessmentFromFields } from '$lib/server/evidence-upload';
 import { failFrom } from '$lib/server/sign-off-forms';
-import { assessSubmission, findSkill, getSubmission, mailAssessment, trainerMayAssess } from '$lib/server/sign-offs';
+import { assessSubmission, findSkill, getSubmission, mailAssessment } from '$lib/server/sign-offs';
+import { trainerMaySee } from '$lib/server/trainer-scope';
 import { findUserById } from '$lib/server/users';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -10,7 +11,7 @@ import type { Actions, PageServerLoad } from './$types';
 export const load: PageServerLoad = async (event) => {
 	const me = requireRole(event, 'trainer');
 	const submission = await getSubmission(event.params.submission);
-	if (!submission || !(await trainerMayAssess(me.id, submission.traineeId))) error(404, 'No such evidence.');
+	if (!submission || !(await trainerMaySee(me.id, submission.traineeId))) error(404, 'No such evidence.');
 	const found = findSkill(submission.courseSlug, submission.skillId);
 	if (!found) error(404, 'No such evidence.');
 	const trainee = await findUserById(submission.traineeId);

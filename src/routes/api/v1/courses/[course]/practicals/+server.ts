@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import { getCourse } from '$lib/content';
 import { requireUser } from '$lib/server/authz';
 import { isEnrolled } from '$lib/server/enrolments';
-import { apiError } from '$lib/server/sign-off-forms';
+import { apiError } from '$lib/server/api';
 import { practicalOverview } from '$lib/server/sign-offs';
 import type { RequestHandler } from './$types';
 
@@ -10,8 +10,8 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = async (event) => {
 	const me = requireUser(event);
 	const course = getCourse(event.params.course);
-	if (!course) return apiError(404, 'No such course.');
-	if (!(await isEnrolled(me.id, course.slug))) return apiError(403, `You are not enrolled in ${course.title}.`);
+	if (!course) return apiError(404, 'not_found', 'No such course.');
+	if (!(await isEnrolled(me.id, course.slug))) return apiError(403, 'forbidden', `You are not enrolled in ${course.title}.`);
 	const skills = await practicalOverview(me.id, course.slug);
 	return json({
 		course: course.slug,

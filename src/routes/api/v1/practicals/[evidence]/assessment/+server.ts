@@ -1,6 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/authz';
-import { apiFailure, readJsonBody } from '$lib/server/sign-off-forms';
+import { z } from 'zod';
+import { readJson } from '$lib/server/api';
+import { apiFailure } from '$lib/server/sign-off-forms';
 import { assessSubmission, mailAssessment } from '$lib/server/sign-offs';
 import type { RequestHandler } from './$types';
 
@@ -10,11 +12,12 @@ import type { RequestHandler } from './$types';
  */
 export const POST: RequestHandler = async (event) => {
 	const me = requireRole(event, 'trainer');
-	const read = await readJsonBody(event.request);
+	// The body is validated by the domain's schema, which also knows the skill's criteria.
+	const read = await readJson(event.request, z.unknown());
 	if (!read.ok) return read.response;
 	let result;
 	try {
-		result = await assessSubmission(event.params.evidence, me.id, read.body);
+		result = await assessSubmission(event.params.evidence, me.id, read.data);
 	} catch (err) {
 		return apiFailure(err);
 	}
