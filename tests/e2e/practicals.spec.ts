@@ -40,6 +40,7 @@ test('a trainee sends evidence, the trainer sends it back, the trainee sends aga
 	const placement = luca.page.getByRole('link', { name: /Place the patch at the defect/ });
 	await expect(placement).toContainText('Not started');
 	await placement.click();
+	await luca.page.waitForLoadState('networkidle');
 	await luca.page.getByLabel(/Photos or PDF/).setInputFiles({ name: 'placement.jpg', mimeType: 'image/jpeg', buffer: photo });
 	await expect(luca.page.getByRole('img', { name: 'Preview of placement.jpg' })).toBeVisible();
 	await luca.page.getByLabel('Note for the trainer').fill('Counter zeroed at MH1, patch centred on the mark.');
@@ -95,7 +96,8 @@ test('a trainee sends evidence, the trainer sends it back, the trainee sends aga
 
 	// The trainee sees the reasons and sends again.
 	await luca.page.goto('/courses/point-repair-installer/practicals/placement');
-	await expect(luca.page.getByText('Show the camera view of both ends')).toBeVisible();
+	await luca.page.waitForLoadState('networkidle');
+	await expect(luca.page.getByText('Show the camera view of both ends').first()).toBeVisible();
 	await luca.page.getByLabel(/Photos or PDF/).setInputFiles({ name: 'placement-ends.jpg', mimeType: 'image/jpeg', buffer: photo });
 	await luca.page.getByLabel('Note for the trainer').fill('Both ends shown on the camera, 160 mm and 170 mm past the defect.');
 	await luca.page.getByRole('button', { name: 'Send evidence' }).click();

@@ -87,7 +87,9 @@ describe('evidence uploads', () => {
 		const thumb = await sharp((await readObject(store, files[0].thumbnail_key!))!).metadata();
 		expect(Math.max(thumb.width!, thumb.height!)).toBeLessThanOrEqual(320);
 		expect(thumb.exif).toBeUndefined();
-		expect((await readObject(store, files[1].storage_key))!.equals(tinyPdf)).toBe(true);
+		const pdf = (await readObject(store, files[1].storage_key))!;
+		expect(pdf.equals(tinyPdf)).toBe(true);
+		expect(files[1].sha256).toBe(createHash('sha256').update(tinyPdf).digest('hex'));
 		expect(files[0].storage_key).not.toContain('IMG_0042');
 		expect((await leftovers()).temporary).toEqual([]);
 	});
@@ -131,6 +133,7 @@ describe('evidence uploads', () => {
 		const photo = await phoneJpegWithGps();
 		await refused(upload([{ name: '../../etc/x\u0007.jpg', bytes: photo }]), 400, /control characters|folder path/);
 		await refused(upload([{ name: '..\\..\\boot.jpg', bytes: photo }]), 400, /folder path/);
+		await refused(upload([{ name: '../../etc/passwd.jpg', bytes: photo }]), 400, /folder path/);
 	});
 
 	it('refuses nine files at once, and one bad file among good ones refuses them all', async () => {

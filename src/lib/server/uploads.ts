@@ -100,6 +100,8 @@ export async function readMultipart(request: Request, fileField: string): Promis
 		parser = busboy({
 			headers: { 'content-type': contentType },
 			defParamCharset: 'utf8',
+			// Keep the name as sent, so a name with a folder path is refused rather than trimmed.
+			preservePath: true,
 			limits: { fileSize: uploadLimits.maxFileBytes, files: uploadLimits.maxFiles + 1, fields: 100, fieldSize: 8 * 1024, parts: 120 }
 		});
 	} catch {
@@ -263,9 +265,8 @@ async function storeImage(file: StagedFile, mediaType: AcceptedType, store: File
 
 async function storePdf(file: StagedFile, store: FileStore): Promise<ProcessedFile> {
 	const hash = createHash('sha256');
+	await pipeline(fs.createReadStream(file.tempPath), hash);
 	const storageKey = randomKey('evidence', 'pdf');
-	const source = fs.createReadStream(file.tempPath);
-	source.on('data', (chunk) => hash.update(chunk));
-	const { sizeBytes } = await store.put(storageKey, source);
+	const { sizeBytes } = await store.put(storageKey, fs.createReadStream(file.tempPath));
 	return { originalName: file.originalName, mediaType: 'application/pdf', storageKey, thumbnailKey: null, sizeBytes, sha256: hash.digest('hex'), widthPx: null, heightPx: null };
 }
