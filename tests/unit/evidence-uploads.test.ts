@@ -4,6 +4,7 @@ import path from 'node:path';
 import { createHash } from 'node:crypto';
 import sharp from 'sharp';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { reloadConfig } from '$lib/server/config';
 import { seedDemo } from '$lib/server/demo-seed';
 import { receiveEvidence } from '$lib/server/evidence-upload';
 import { FilesystemStore, readObject } from '$lib/server/storage';
@@ -21,9 +22,11 @@ const previousDataDir = process.env.DATA_DIR;
 beforeAll(() => {
 	dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'pw-uploads-'));
 	process.env.DATA_DIR = dataDir;
+	reloadConfig();
 });
 afterAll(() => {
 	process.env.DATA_DIR = previousDataDir;
+	reloadConfig();
 	fs.rmSync(dataDir, { recursive: true, force: true });
 });
 beforeEach(async () => {
