@@ -51,7 +51,9 @@ export default defineConfig({
 				FAKES: '1',
 				FAKE_INBOX_URL: inboxURL,
 				SEED_DEMO: '1',
-				SIGN_IN_LIMIT_PER_IP: '100000'
+				SIGN_IN_LIMIT_PER_IP: '100000',
+				// Evidence uploads: 8 files of 12 MB plus the form (the upload route enforces its own caps).
+				BODY_SIZE_LIMIT: '100M'
 			},
 			stdout: 'pipe'
 		}

@@ -58,7 +58,9 @@ const app = spawn(process.execPath, [buildDir], {
 		SMTP_URL: mail.smtpUrl,
 		FAKES: '1',
 		FAKE_INBOX_URL: mail.inboxUrl,
-		SEED_DEMO: '1'
+		SEED_DEMO: '1',
+		// Evidence uploads: 8 files of 12 MB plus the form (the upload route enforces its own caps).
+		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '100M'
 	}
 });
 

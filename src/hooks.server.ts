@@ -10,6 +10,7 @@ import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
 import { fillLessonBodySlot } from '$lib/server/lesson-html';
+import { seedDemoPracticals } from '$lib/server/demo-practicals';
 import { withRequestContext } from '$lib/server/request-context';
 import { sessionIdFromCookie } from '$lib/server/session-cookie';
 import { identityForSession } from '$lib/server/sessions';
@@ -21,7 +22,10 @@ export const init: ServerInit = async () => {
 		const config = loadConfig();
 		authSecret();
 		await migrateToLatest(getDb());
-		if (config.seedDemo && (await seedDemo())) console.log('Seeded the demo scenario.');
+		if (config.seedDemo && (await seedDemo())) {
+			await seedDemoPracticals();
+			console.log('Seeded the demo scenario.');
+		}
 	} catch (e) {
 		// A setting or the data folder is wrong: one line that says which, not a stack trace.
 		if (e instanceof ConfigError || e instanceof DataDirError || (e instanceof Error && e.message.startsWith('AUTH_SECRET'))) {

@@ -53,7 +53,20 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/api/v1/attempts/no-such-attempt/result', { anonymous: 401, other: 404 }],
 	['/trainer/attempts', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
 	['/trainer/attempts/items?course=point-repair-installer', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
-	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }]
+	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }],
+	['/courses/point-repair-installer/practicals', { anonymous: 'in', other: 'ok' }],
+	['/courses/no-such-course/practicals', { anonymous: 'in', other: 404 }],
+	['/courses/point-repair-installer/practicals/wet-out', { anonymous: 'in', trainee: 'ok', other: 403 }],
+	['/courses/point-repair-installer/practicals/no-such-skill', { anonymous: 'in', other: 404 }],
+	['/trainer/practicals', { anonymous: 'in', trainer: 'ok', other: 403 }],
+	['/trainer/practicals?course=__proto__&company=constructor&olderThanDays=-1', { anonymous: 'in', trainer: 'ok', other: 403 }],
+	['/trainer/practicals/in-person', { anonymous: 'in', trainer: 'ok', other: 403 }],
+	['/trainer/practicals/no-such-evidence', { anonymous: 'in', trainer: 404, other: 403 }],
+	['/registrar/sign-offs', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	['/evidence-files/no-such-file', { anonymous: 'in', other: 404 }],
+	['/api/v1/courses/point-repair-installer/practicals', { anonymous: 401, trainee: 'ok', other: 403 }],
+	['/api/v1/courses/no-such-course/practicals', { anonymous: 401, other: 404 }],
+	['/api/v1/practicals/queue', { anonymous: 401, trainer: 'ok', other: 403 }]
 ];
 
 const codes: Record<number, string> = { 400: 'bad_request', 401: 'unauthorized', 403: 'forbidden', 404: 'not_found', 409: 'conflict', 413: 'payload_too_large', 415: 'unsupported_media_type' };

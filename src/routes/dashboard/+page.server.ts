@@ -1,5 +1,6 @@
 import { requireUser } from '$lib/server/authz';
 import { crewProgress, registrarCounts, traineeStandings, trainerDesk } from '$lib/server/dashboard';
+import { queueCount } from '$lib/server/sign-offs';
 import type { PageServerLoad } from './$types';
 
 /** Each role's section of the dashboard, loaded only for the roles the person holds. */
@@ -7,7 +8,7 @@ export const load: PageServerLoad = async (event) => {
 	const user = requireUser(event);
 	const adminOf = user.companies.filter((c) => c.role === 'admin');
 	const staff = user.roles.includes('trainer') || user.roles.includes('registrar');
-	const [standings, companies, desk, counts] = await Promise.all([
+	const [standings, companies, desk, practicalQueue, counts] = await Promise.all([
 		traineeStandings(user.id),
 		Promise.all(
 			adminOf.map(async (c) => {
@@ -22,7 +23,8 @@ export const load: PageServerLoad = async (event) => {
 			})
 		),
 		staff ? trainerDesk(user.id) : null,
+		user.roles.includes('trainer') ? queueCount(user.id) : null,
 		user.roles.includes('registrar') ? registrarCounts() : null
 	]);
-	return { standings, companies, desk, counts };
+	return { standings, companies, desk, practicalQueue, counts };
 };
