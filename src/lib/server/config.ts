@@ -23,6 +23,14 @@ export const config = {
 	get fakeInboxUrl() {
 		return env.FAKES === '1' ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null;
 	},
+	/** Public origin for links that leave the app (QR codes, credential ids); adapter-node reads the same variable. */
+	get origin() {
+		return (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, '');
+	},
+	/** The training provider that issues certificates. */
+	get issuerName() {
+		return env.ISSUER_NAME || 'Fenmoor Training Yard';
+	},
 	get seedDemo() {
 		return env.SEED_DEMO === '1';
 	}
