@@ -119,6 +119,73 @@ export interface TestAttemptTable {
 	wait_waived_by: string | null;
 }
 
+export type SubmissionStatus = 'waiting' | 'withdrawn' | 'returned' | 'signed off';
+export type AssessmentOutcome = 'signed off' | 'returned';
+
+/**
+ * Evidence for one practical skill. JSON text: `readings` (array of recorded readings).
+ * `in_person` = 1 when a trainer recorded it at an assessment without prior evidence.
+ */
+export interface PracticalSubmissionTable {
+	id: string;
+	trainee_id: string;
+	course_slug: string;
+	skill_id: string;
+	submitted_by: string;
+	in_person: 0 | 1;
+	note: string;
+	readings: string;
+	status: SubmissionStatus;
+	submitted_at: string;
+	closed_at: string | null;
+}
+
+/** A stored upload of a submission; the bytes live in the file store under `storage_key`. */
+export interface EvidenceFileTable {
+	id: string;
+	submission_id: string;
+	position: number;
+	storage_key: string;
+	thumbnail_key: string | null;
+	original_name: string;
+	media_type: string;
+	size_bytes: number;
+	sha256: string;
+	width_px: number | null;
+	height_px: number | null;
+	uploaded_by: string;
+	created_at: string;
+}
+
+/** A trainer's grading of one submission. JSON text: `criteria` (per-criterion results). */
+export interface PracticalAssessmentTable {
+	id: string;
+	submission_id: string;
+	trainer_id: string;
+	outcome: AssessmentOutcome;
+	criteria: string;
+	reasons: string;
+	place: string;
+	/** The day the practical took place, YYYY-MM-DD. */
+	practical_date: string;
+	signature_name: string;
+	assessed_at: string;
+}
+
+/** A skill signed off for a person; never deleted, voided by a registrar with a reason. */
+export interface SignOffTable {
+	id: string;
+	user_id: string;
+	course_slug: string;
+	skill_id: string;
+	assessment_id: string;
+	trainer_id: string;
+	signed_off_at: string;
+	voided_at: string | null;
+	voided_by: string | null;
+	void_reason: string | null;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -132,6 +199,10 @@ export interface Database {
 	enrolment: EnrolmentTable;
 	lesson_progress: LessonProgressTable;
 	test_attempt: TestAttemptTable;
+	practical_submission: PracticalSubmissionTable;
+	evidence_file: EvidenceFileTable;
+	practical_assessment: PracticalAssessmentTable;
+	sign_off: SignOffTable;
 }
 
 export type User = Selectable<UserTable>;
