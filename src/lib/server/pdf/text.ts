@@ -2,15 +2,22 @@ import { rgb, type PDFFont, type PDFPage, type RGB } from 'pdf-lib';
 
 /** Splits text into lines no wider than `maxWidth` points at `size`; words longer than a line are kept whole. */
 export function wrapText(text: string, font: PDFFont, size: number, maxWidth: number): string[] {
+	// words measured one at a time (no kerning across a space is applied, see fonts.ts)
+	const space = font.widthOfTextAtSize(' ', size);
 	const lines: string[] = [];
 	for (const paragraph of text.split('\n')) {
 		let line = '';
+		let width = 0;
 		for (const word of paragraph.split(/\s+/).filter(Boolean)) {
-			const candidate = line ? `${line} ${word}` : word;
-			if (line && font.widthOfTextAtSize(candidate, size) > maxWidth) {
+			const w = font.widthOfTextAtSize(word, size);
+			if (line && width + space + w > maxWidth) {
 				lines.push(line);
 				line = word;
-			} else line = candidate;
+				width = w;
+			} else {
+				width = line ? width + space + w : w;
+				line = line ? `${line} ${word}` : word;
+			}
 		}
 		lines.push(line);
 	}
