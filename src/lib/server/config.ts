@@ -46,3 +46,19 @@ export const signInLimits = {
 	},
 	windowMs: 15 * 60 * 1000
 };
+
+const optionalCount = (value: string | undefined) => (value && /^\d+$/.test(value) ? Number(value) : undefined);
+
+/**
+ * Requests per client address per window for the public APIs, by limiter bucket, when set;
+ * unset, each API keeps its own default. The HTTP benchmark raises them so that it measures
+ * the pipeline rather than 429 answers.
+ */
+export const apiLimitOverrides: Record<string, number | undefined> = {
+	get 'calc-api'() {
+		return optionalCount(env.CALC_API_LIMIT_PER_MINUTE);
+	},
+	get 'practice-api'() {
+		return optionalCount(env.PRACTICE_API_LIMIT_PER_MINUTE);
+	}
+};
