@@ -2,6 +2,7 @@ import { PDFDocument, rgb, type PDFFont, type PDFPage } from 'pdf-lib';
 import { embedLora } from './fonts';
 import { drawQr } from './qr';
 import { drawWrapped } from './text';
+import { longDate } from '$lib/certificates/status';
 
 /** What a certificate document shows; all of it comes from the certificate row. */
 export interface CertificateDocument {
@@ -38,13 +39,6 @@ export const pageSizes: Record<DocumentFormat, [number, number]> = {
 const ink = rgb(0x17 / 255, 0x1f / 255, 0x27 / 255);
 const muted = rgb(0x45 / 255, 0x57 / 255, 0x66 / 255);
 const clay = rgb(0x9a / 255, 0x46 / 255, 0x28 / 255);
-
-/** A calendar date as 12 March 2027; `iso` is YYYY-MM-DD. */
-export function longDate(iso: string): string {
-	const [y, m, d] = iso.split('-').map(Number);
-	const months = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
-	return `${d} ${months[m - 1]} ${y}`;
-}
 
 type Fonts = Record<'regular' | 'semibold' | 'bold', PDFFont>;
 
