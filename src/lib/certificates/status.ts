@@ -15,3 +15,8 @@ export function longDate(iso: string): string {
 	const months = ['January', 'February', 'March', 'April', 'May', 'June', 'July', 'August', 'September', 'October', 'November', 'December'];
 	return `${d} ${months[m - 1]} ${y}`;
 }
+
+/** A UTC timestamp as "2 December 2026, 14:05 UTC". */
+export function formatUtc(iso: string): string {
+	return `${longDate(iso.slice(0, 10))}, ${iso.slice(11, 16)} UTC`;
+}

@@ -4,6 +4,7 @@ import { getCourse } from '$lib/content';
 import { checkReadings, type Reading, type TypedReadings } from '$lib/practicals/readings';
 import type { CriterionResult, SkillState } from '$lib/practicals/states';
 import { recordAudit } from './audit';
+import { issueIfEarned } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { isUniqueViolation } from './db/errors';
 import { isEnrolled } from './enrolments';
@@ -572,6 +573,8 @@ async function recordAssessment(
 		},
 		trx
 	);
+	// the last sign-off can complete the course: the certificate comes in the same transaction
+	if (signOffId) await issueIfEarned(submission.traineeId, submission.courseSlug, { db: trx, actorId: trainerId });
 	return { submissionId: submission.id, outcome: input.outcome, signOffId, ...submission };
 }
 

@@ -2,6 +2,9 @@ import { requireUser } from '$lib/server/authz';
 import { countPeople } from '$lib/server/users';
 import { listMembers } from '$lib/server/companies';
 import { listEnrolledProgress } from '$lib/server/progress';
+import { listCertificatesOf } from '$lib/server/certificates';
+import { config } from '$lib/server/config';
+import { recentCrewChecks } from '$lib/server/crew-checks';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -13,6 +16,9 @@ export const load: PageServerLoad = async (event) => {
 	return {
 		training: await listEnrolledProgress(user.id),
 		companies,
-		peopleCount: user.roles.includes('registrar') ? await countPeople() : null
+		peopleCount: user.roles.includes('registrar') ? await countPeople() : null,
+		certificates: await listCertificatesOf(user.id),
+		origin: config.origin,
+		recentChecks: user.roles.includes('inspector') ? await recentCrewChecks(user.id, 3) : []
 	};
 };
