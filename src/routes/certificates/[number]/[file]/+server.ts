@@ -19,7 +19,7 @@ export const GET: RequestHandler = async (event) => {
 	if (file in pdfFormats) {
 		const format = pdfFormats[file as keyof typeof pdfFormats];
 		const { bytes } = await issuedDocument(row, format);
-		return new Response(bytes, { headers: headers('application/pdf', `${base}-${format}.pdf`) });
+		return new Response(bytes as unknown as BodyInit, { headers: headers('application/pdf', `${base}-${format}.pdf`) });
 	}
 	if (file === 'credential.jwt') return new Response(row.credential_jwt, { headers: headers('application/jwt', `${base}.jwt`) });
 	if (file === 'credential.json') {
