@@ -21,3 +21,23 @@ export const gradeLabels: Record<CriterionGrade, string> = {
 	'not met': 'Not met',
 	'not observed': 'Not observed'
 };
+
+export interface EvidenceFileView {
+	id: string;
+	originalName: string;
+	mediaType: string;
+	sizeBytes: number;
+	hasThumbnail: boolean;
+}
+
+export interface AssessmentView {
+	trainerId: string;
+	signatureName: string;
+	outcome: 'signed off' | 'returned';
+	criteria: CriterionResult[];
+	reasons: string;
+	place: string;
+	practicalDate: string;
+	assessedAt: string;
+}
+

@@ -2,7 +2,8 @@ import { randomUUID } from 'node:crypto';
 import { z } from 'zod';
 import { getCourse } from '$lib/content';
 import { checkReadings, type Reading, type TypedReadings } from '$lib/practicals/readings';
-import type { CriterionResult, SkillState } from '$lib/practicals/states';
+import type { AssessmentView, CriterionResult, EvidenceFileView, SkillState } from '$lib/practicals/states';
+export type { AssessmentView, EvidenceFileView } from '$lib/practicals/states';
 import { recordAudit } from './audit';
 import { issueIfEarned } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
@@ -95,25 +96,6 @@ export async function trainerMayAssess(trainerId: string, traineeId: string, db:
 // ---------------------------------------------------------------------------------------------
 // What a trainee sees
 // ---------------------------------------------------------------------------------------------
-
-export interface EvidenceFileView {
-	id: string;
-	originalName: string;
-	mediaType: string;
-	sizeBytes: number;
-	hasThumbnail: boolean;
-}
-
-export interface AssessmentView {
-	trainerId: string;
-	signatureName: string;
-	outcome: 'signed off' | 'returned';
-	criteria: CriterionResult[];
-	reasons: string;
-	place: string;
-	practicalDate: string;
-	assessedAt: string;
-}
 
 export interface SubmissionView {
 	id: string;
@@ -859,4 +841,38 @@ export async function signOffsOfPerson(userId: string, db: DB = defaultDb): Prom
 		voidedAt: r.voided_at,
 		voidReason: r.void_reason
 	}));
+}
+
+/**
+ * Tells the trainee by e-mail that a skill was signed off or sent back. Sent after the
+ * transaction; a mail failure is logged, never undoes the assessment.
+ */
+export async function mailAssessment(result: AssessmentResult, origin: string, db: DB = defaultDb): Promise<void> {
+	const trainee = await db.selectFrom('User').select(['email', 'name']).where('id', '=', result.traineeId).executeTakeFirst();
+	const found = findSkill(result.courseSlug, result.skillId);
+	const assessment = await db.selectFrom('practical_assessment').select(['signature_name', 'reasons', 'place', 'practical_date']).where('submission_id', '=', result.submissionId).executeTakeFirst();
+	if (!trainee || !found || !assessment) return;
+	const signed = result.outcome === 'signed off';
+	const paragraphs = signed
+		? [
+				`Hello ${trainee.name ?? ''},`.replace(' ,', ','),
+				`${assessment.signature_name} signed off your practical skill "${found.skill.title}" in ${found.course.title}, assessed at ${assessment.place} on ${assessment.practical_date}.`
+			]
+		: [
+				`Hello ${trainee.name ?? ''},`.replace(' ,', ','),
+				`${assessment.signature_name} sent your evidence for "${found.skill.title}" in ${found.course.title} back to you. The reasons:`,
+				assessment.reasons,
+				'Practise the points named, then send new evidence from the same page.'
+			];
+	try {
+		const { sendMail } = await import('./mail');
+		await sendMail({
+			to: trainee.email,
+			subject: signed ? `Signed off: ${found.skill.title}` : `Sent back: ${found.skill.title}`,
+			paragraphs,
+			action: { label: 'Open the skill', url: `${origin}/courses/${result.courseSlug}/practicals/${result.skillId}` }
+		});
+	} catch (err) {
+		console.error('Assessment e-mail failed', err);
+	}
 }

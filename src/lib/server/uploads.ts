@@ -108,6 +108,7 @@ export async function readMultipart(request: Request, fileField: string): Promis
 
 	const writes: Promise<void>[] = [];
 	let tooManyFiles = false;
+	let malformed = false;
 	const done = new Promise<void>((resolve, reject) => {
 		parser.on('field', (name, value) => {
 			if (!(name in fields)) fields[name] = value;
@@ -130,7 +131,10 @@ export async function readMultipart(request: Request, fileField: string): Promis
 		});
 		parser.on('filesLimit', () => (tooManyFiles = true));
 		parser.on('close', resolve);
-		parser.on('error', reject);
+		parser.on('error', (err) => {
+			malformed = true;
+			reject(err);
+		});
 	});
 
 	try {
@@ -146,6 +150,7 @@ export async function readMultipart(request: Request, fileField: string): Promis
 		await Promise.allSettled(writes);
 		await discard();
 		if (err instanceof UploadError) throw err;
+		if (malformed) throw new UploadError(400, 'The form could not be read: a part of it is malformed, for example a file name with control characters. Rename the file and try again.');
 		throw new UploadError(400, 'The upload was cut off or could not be read. Please try again.');
 	}
 

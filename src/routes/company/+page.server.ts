@@ -1,7 +1,12 @@
 import { error } from '@sveltejs/kit';
 import { requireCompanyAdmin } from '$lib/server/authz';
+import { getCourse } from '$lib/content';
 import { listMembers } from '$lib/server/companies';
+<<<<<<< HEAD
 import { listCertificatesOfCompany } from '$lib/server/certificates';
+=======
+import { crewSignOffCounts } from '$lib/server/sign-offs';
+>>>>>>> signoffs
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -10,5 +15,17 @@ export const load: PageServerLoad = async (event) => {
 	const wanted = event.url.searchParams.get('c');
 	const company = wanted ? adminOf.find((c) => c.id === wanted) : adminOf[0];
 	if (!company) error(403, 'Only a company admin can see this crew.');
+<<<<<<< HEAD
 	return { company, companies: adminOf, members: await listMembers(company.id), certificates: await listCertificatesOfCompany(company.id) };
+=======
+	const members = await listMembers(company.id);
+	const counts = await crewSignOffCounts(company.id);
+	const signOffs = counts.map((c) => ({
+		name: members.find((m) => m.id === c.userId)?.name ?? '',
+		courseTitle: getCourse(c.courseSlug)?.title ?? c.courseSlug,
+		signedOff: c.signedOff,
+		total: c.total
+	}));
+	return { company, companies: adminOf, members, signOffs };
+>>>>>>> signoffs
 };
