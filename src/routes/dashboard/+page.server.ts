@@ -2,13 +2,10 @@ import { requireUser } from '$lib/server/authz';
 import { countPeople } from '$lib/server/users';
 import { listMembers } from '$lib/server/companies';
 import { listEnrolledProgress } from '$lib/server/progress';
-<<<<<<< HEAD
 import { listCertificatesOf } from '$lib/server/certificates';
 import { config } from '$lib/server/config';
 import { recentCrewChecks } from '$lib/server/crew-checks';
-=======
 import { queueCount } from '$lib/server/sign-offs';
->>>>>>> signoffs
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -21,12 +18,9 @@ export const load: PageServerLoad = async (event) => {
 		training: await listEnrolledProgress(user.id),
 		companies,
 		peopleCount: user.roles.includes('registrar') ? await countPeople() : null,
-<<<<<<< HEAD
 		certificates: await listCertificatesOf(user.id),
 		origin: config.origin,
-		recentChecks: user.roles.includes('inspector') ? await recentCrewChecks(user.id, 3) : []
-=======
+		recentChecks: user.roles.includes('inspector') ? await recentCrewChecks(user.id, 3) : [],
 		practicalQueue: user.roles.includes('trainer') ? await queueCount(user.id) : null
->>>>>>> signoffs
 	};
 };
