@@ -2,11 +2,8 @@ import { error } from '@sveltejs/kit';
 import { requireCompanyAdmin } from '$lib/server/authz';
 import { getCourse } from '$lib/content';
 import { listMembers } from '$lib/server/companies';
-<<<<<<< HEAD
 import { listCertificatesOfCompany } from '$lib/server/certificates';
-=======
 import { crewSignOffCounts } from '$lib/server/sign-offs';
->>>>>>> signoffs
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -15,9 +12,6 @@ export const load: PageServerLoad = async (event) => {
 	const wanted = event.url.searchParams.get('c');
 	const company = wanted ? adminOf.find((c) => c.id === wanted) : adminOf[0];
 	if (!company) error(403, 'Only a company admin can see this crew.');
-<<<<<<< HEAD
-	return { company, companies: adminOf, members: await listMembers(company.id), certificates: await listCertificatesOfCompany(company.id) };
-=======
 	const members = await listMembers(company.id);
 	const counts = await crewSignOffCounts(company.id);
 	const signOffs = counts.map((c) => ({
@@ -26,6 +20,5 @@ export const load: PageServerLoad = async (event) => {
 		signedOff: c.signedOff,
 		total: c.total
 	}));
-	return { company, companies: adminOf, members, signOffs };
->>>>>>> signoffs
+	return { company, companies: adminOf, members, signOffs, certificates: await listCertificatesOfCompany(company.id) };
 };
