@@ -8,6 +8,9 @@ import { openDatabase } from '$lib/server/db/connect';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { recordPassedTest, recordSignOffs } from '$lib/server/demo-certificates';
 import { enrol } from '$lib/server/enrolments';
+import { seedDemo } from '$lib/server/demo-seed';
+import { assessSubmission } from '$lib/server/sign-offs';
+import { listCertificatesForRegistrar } from '$lib/server/certificates';
 import { issuerKeyFile } from '$lib/server/issuer-key';
 import { createTestDb } from '../helpers/db';
 import { makeTraineeAndTrainer, useTemporaryDataDir } from '../helpers/certificates';
@@ -173,5 +176,41 @@ describe('certificate issuance', () => {
 		await recordSignOffs(trainee.id, BASIC, trainer, day('2026-10-02'), db);
 		await issueIfEarned(trainee.id, BASIC, { db, now: day('2026-10-02') });
 		expect(fs.statSync(issuerKeyFile(dataDir)).mode & 0o777).toBe(0o600);
+	});
+
+	it('seeds the demo with valid, expiring-soon, expired and revoked certificates and two people one requirement short', async () => {
+		await seedDemo(db);
+		const all = await listCertificatesForRegistrar('', { db });
+		const byHolder = new Map(all.map((c) => [`${c.holder}|${c.course.code}`, c]));
+		expect(byHolder.get('Sam Okafor|PR-100')?.status).toBe('valid');
+		const priya = byHolder.get('Priya Venn|PS-150')!;
+		expect(priya.status).toBe('valid');
+		const daysLeft = (Date.parse(priya.expiresOn) - Date.now()) / 86_400_000;
+		expect(daysLeft).toBeGreaterThan(0);
+		expect(daysLeft).toBeLessThan(60);
+		expect(byHolder.get('Luca Marsh|PR-100')?.status).toBe('expired');
+		expect(byHolder.get('Finn Ostrander|PR-100')).toMatchObject({ status: 'revoked', revocationReason: expect.stringContaining('Issued in error') });
+		const waiting = (await listWaitingForOne({ db })).map((w) => `${w.name}|${w.courseSlug}|${w.missing.key}`).sort();
+		expect(waiting).toEqual(['Ade Kowal|transition-patches|test', 'Sam Okafor|packer-pressure-safety|skills']);
+	});
+
+	it("issues in the trainer's sign-off transaction when that sign-off is the last requirement", async () => {
+		await seedDemo(db);
+		const sam = await db.selectFrom('User').select('id').where('email', '=', 'sam@brindlewick.test').executeTakeFirstOrThrow();
+		const trainer = await db.selectFrom('User').select('id').where('email', '=', 'trainer@fenmoor.test').executeTakeFirstOrThrow();
+		const waiting = await db.selectFrom('practical_submission').select(['id', 'skill_id']).where('trainee_id', '=', sam.id).where('status', '=', 'waiting').executeTakeFirstOrThrow();
+		const skill = getCourse('packer-pressure-safety')!.practicalSkills.find((s) => s.id === waiting.skill_id)!;
+		await assessSubmission(waiting.id, trainer.id, {
+			criteria: skill.criteria.map(() => ({ result: 'met', remark: '' })),
+			outcome: 'signed off',
+			reasons: '',
+			place: 'Training yard rig',
+			practicalDate: new Date().toISOString().slice(0, 10),
+			signatureName: 'Mira Calloway'
+		}, db);
+		const held = await db.selectFrom('certificate').select(['course_slug', 'holder_name']).where('user_id', '=', sam.id).execute();
+		expect(held.map((h) => h.course_slug).sort()).toEqual(['packer-pressure-safety', 'point-repair-installer']);
+		const audit = await listAudit({ subjectType: 'certificate' }, db);
+		expect(audit[0]).toMatchObject({ action: 'certificate.issue' });
 	});
 });

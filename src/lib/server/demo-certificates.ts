@@ -1,4 +1,5 @@
 import { getCourse } from '$lib/content';
+import { issueIfEarned, revokeCertificate } from './certificates';
 import type { DB } from './db';
 
 /**
@@ -59,4 +60,53 @@ export async function recordSignOffs(
 			.values({ id: crypto.randomUUID(), user_id: userId, course_slug: courseSlug, skill_id: skillId, assessment_id: assessmentId, trainer_id: trainer.id, signed_off_at: when, voided_at: null, voided_by: null, void_reason: null })
 			.execute();
 	}
+}
+
+/** Evidence waiting for a trainer's assessment, for the skill given. */
+export async function recordWaitingEvidence(userId: string, courseSlug: string, skillId: string, at: Date, db: DB): Promise<string> {
+	const id = crypto.randomUUID();
+	await db
+		.insertInto('practical_submission')
+		.values({ id, trainee_id: userId, course_slug: courseSlug, skill_id: skillId, submitted_by: userId, in_person: 0, note: 'Photos of the rig practice; readings in the note.', readings: '{}', status: 'waiting', submitted_at: at.toISOString(), closed_at: null })
+		.execute();
+	return id;
+}
+
+const DAY = 86_400_000;
+
+/**
+ * The demo's certificates, dated relative to `now`: valid, expiring within a month, expired,
+ * revoked, and people one requirement short (one with evidence waiting for the last sign-off).
+ */
+export async function seedDemoCertificates(byEmail: Map<string, string>, db: DB, now = new Date()): Promise<void> {
+	const ago = (days: number) => new Date(now.getTime() - days * DAY);
+	const trainer = { id: byEmail.get('trainer@fenmoor.test')!, name: 'Mira Calloway' };
+	const registrar = byEmail.get('registrar@fenmoor.test')!;
+	const earn = async (email: string, course: string, daysAgo: number) => {
+		const userId = byEmail.get(email)!;
+		await recordPassedTest(userId, course, ago(daysAgo + 5), db);
+		await recordSignOffs(userId, course, trainer, ago(daysAgo), db);
+		const outcome = await issueIfEarned(userId, course, { db, now: ago(daysAgo) });
+		if (!outcome.issued) throw new Error(`Demo certificate for ${email} in ${course} was not issued`);
+		return outcome.certificate;
+	};
+	// valid
+	await earn('sam@brindlewick.test', 'point-repair-installer', 60);
+	await earn('ade@tarnside.test', 'point-repair-installer', 120);
+	// expiring soon: 24-month course issued 23 months and a few days ago
+	await earn('priya@brindlewick.test', 'packer-pressure-safety', 24 * 30.44 - 25);
+	// expired
+	await earn('luca@brindlewick.test', 'point-repair-installer', 37 * 30.44);
+	// revoked
+	const finn = await earn('finn@tarnside.test', 'point-repair-installer', 90);
+	await revokeCertificate(registrar, finn.number, 'issued-in-error', 'Sign-offs recorded against the wrong person.', { db, now: ago(80) });
+
+	// one requirement short: Sam's last packer sign-off is waiting for the trainer
+	const sam = byEmail.get('sam@brindlewick.test')!;
+	const packerSkills = getCourse('packer-pressure-safety')!.practicalSkills.map((s) => s.id);
+	await recordPassedTest(sam, 'packer-pressure-safety', ago(10), db);
+	await recordSignOffs(sam, 'packer-pressure-safety', trainer, ago(8), db, packerSkills.slice(0, -1));
+	await recordWaitingEvidence(sam, 'packer-pressure-safety', packerSkills.at(-1)!, ago(2), db);
+	// Ade has every transition sign-off but has not passed that course test yet
+	await recordSignOffs(byEmail.get('ade@tarnside.test')!, 'transition-patches', trainer, ago(20), db);
 }
