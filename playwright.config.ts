@@ -51,7 +51,8 @@ export default defineConfig({
 				FAKES: '1',
 				FAKE_INBOX_URL: inboxURL,
 				SEED_DEMO: '1',
-				SIGN_IN_LIMIT_PER_IP: '100000'
+				SIGN_IN_LIMIT_PER_IP: '100000',
+				CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: '100000'
 			},
 			stdout: 'pipe'
 		}

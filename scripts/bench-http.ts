@@ -48,7 +48,7 @@ export interface LoadResult {
 	tooMany: number;
 }
 
-function freePort(): Promise<number> {
+export function freePort(): Promise<number> {
 	return new Promise((resolve, reject) => {
 		const server = createServer();
 		server.once('error', reject);
@@ -59,7 +59,7 @@ function freePort(): Promise<number> {
 	});
 }
 
-async function waitFor(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
+export async function waitFor(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
 	const until = Date.now() + timeoutMs;
 	while (Date.now() < until) {
 		if (child.exitCode !== null) throw new Error(`${url}: the server exited with code ${child.exitCode}`);
@@ -73,7 +73,7 @@ async function waitFor(url: string, child: ChildProcess, timeoutMs = 60_000): Pr
 	throw new Error(`${url} did not answer within ${timeoutMs / 1000} s`);
 }
 
-function stop(child: ChildProcess): Promise<void> {
+export function stop(child: ChildProcess): Promise<void> {
 	if (child.exitCode !== null) return Promise.resolve();
 	return new Promise((resolve) => {
 		const force = setTimeout(() => child.kill('SIGKILL'), 10_000);
@@ -97,7 +97,7 @@ async function startBare(): Promise<{ url: string; child: ChildProcess }> {
 	return { url, child };
 }
 
-async function startApp(buildDir: string): Promise<{ url: string; child: ChildProcess; dataDir: string }> {
+export async function startApp(buildDir: string): Promise<{ url: string; child: ChildProcess; dataDir: string }> {
 	const port = await freePort();
 	const dataDir = mkdtempSync(path.join(tmpdir(), 'patchwright-bench-'));
 	const url = `http://127.0.0.1:${port}`;
@@ -118,7 +118,8 @@ async function startApp(buildDir: string): Promise<{ url: string; child: ChildPr
 			SIGN_IN_LIMIT_PER_IP: '1000000',
 			SIGN_IN_LIMIT_PER_EMAIL: '1000000',
 			CALC_API_LIMIT_PER_MINUTE: '1000000000',
-			PRACTICE_API_LIMIT_PER_MINUTE: '1000000000'
+			PRACTICE_API_LIMIT_PER_MINUTE: '1000000000',
+			CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: '1000000000'
 		},
 		stdio: ['ignore', 'ignore', 'inherit']
 	});
@@ -139,7 +140,7 @@ export async function signIn(baseUrl: string, email: string, password: string): 
 	return cookies.join('; ');
 }
 
-function load(url: string, target: Target, cookie: string | null, seconds: number): Promise<LoadResult> {
+export function load(url: string, target: Target, cookie: string | null, seconds: number): Promise<LoadResult> {
 	const headers: Record<string, string> = {};
 	if (target.body) headers['content-type'] = 'application/json';
 	if (target.signedIn && cookie) headers.cookie = cookie;
@@ -162,7 +163,7 @@ function load(url: string, target: Target, cookie: string | null, seconds: numbe
 	});
 }
 
-async function measure(url: string, target: Target, cookie: string | null): Promise<LoadResult> {
+export async function measure(url: string, target: Target, cookie: string | null): Promise<LoadResult> {
 	await load(url, target, cookie, WARM_UP_SECONDS);
 	return load(url, target, cookie, SECONDS);
 }
@@ -190,7 +191,7 @@ export function appTargets(): Target[] {
 	];
 }
 
-function meanOf(a: LoadResult, b: LoadResult): LoadResult {
+export function meanOf(a: LoadResult, b: LoadResult): LoadResult {
 	const mean = (x: number, y: number) => (x + y) / 2;
 	return {
 		name: a.name,
@@ -203,7 +204,7 @@ function meanOf(a: LoadResult, b: LoadResult): LoadResult {
 	};
 }
 
-function printLoad(bare: LoadResult, rows: LoadResult[]) {
+export function printLoad(bare: LoadResult, rows: LoadResult[]) {
 	const width = Math.max(...[bare, ...rows].map((r) => r.name.length));
 	const line = (r: LoadResult, ratio: string) =>
 		`${r.name.padEnd(width)}  ${Math.round(r.requestsPerSecond).toLocaleString('en-US').padStart(8)}  ${r.p50.toFixed(1).padStart(7)}  ${r.p99.toFixed(1).padStart(7)}  ${String(r.errors).padStart(6)}  ${String(r.non2xx).padStart(7)}  ${String(r.tooMany).padStart(5)}  ${ratio.padStart(7)}`;

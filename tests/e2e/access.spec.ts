@@ -49,7 +49,19 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/api/v1/attempts/no-such-attempt/result', { anonymous: 401, other: 404 }],
 	['/trainer/attempts', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
 	['/trainer/attempts/items?course=point-repair-installer', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
-	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }]
+	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }],
+	['/verify', 'ok'],
+	['/verify?number=abc', 'ok'],
+	['/verify/0000-0000-0000-0000', 'ok'],
+	['/registrar/certificates', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	['/inspector/checks/no-such-check', { anonymous: 'in', inspector: 404, other: 403 }],
+	['/api/v1/certificates/0000-0000-0000-0000', 404],
+	['/api/v1/certificates/__proto__', 404],
+	['/.well-known/jwks.json', 'ok'],
+	['/issuer', 'ok'],
+	['/contexts/ob/v3p0/context-3.0.3.json', 'ok'],
+	['/contexts/ob/v3p0/no-such.json', 404],
+	['/certificates/0000-0000-0000-0000/a4.pdf', { anonymous: 'in', other: 404 }]
 ];
 
 function expected(rule: (typeof table)[number][1], identity: Identity): Expect {
