@@ -6,12 +6,15 @@ import { config } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
+import { issuerKey } from '$lib/server/issuer-key';
 import { loadIdentity } from '$lib/server/roles';
 
 export const init: ServerInit = async () => {
 	// Prerendering during `vite build` runs this hook too; the build must not touch a database.
 	if (building) return;
 	await migrateToLatest(getDb());
+	// the certificate signing key exists from the first start, before anything is issued
+	await issuerKey();
 	if (config.seedDemo && (await seedDemo())) console.log('Seeded the demo scenario.');
 };
 
