@@ -9,14 +9,15 @@ import { baseURL, signInRequest, signInWithPassword, who } from './support';
  * it and the inspector sees the change.
  */
 test.use({ viewport: { width: 360, height: 780 } });
+const HOLDER = 'nell@brindlewick.test';
 
 test('issued on the last sign-off, verified, an altered PDF refused, revoked', async ({ browser }) => {
-	// the trainer signs off Sam's last packer skill (the demo leaves that evidence waiting)
+	// the trainer signs off Nell's last packer skill (the demo leaves that evidence waiting)
 	const trainer = await newRequest.newContext({ baseURL });
 	await signInRequest(trainer, who.trainer);
 	const queue: { items: { submissionId: string; courseSlug: string; skillId: string; traineeName: string }[] } = await (await trainer.get('/api/v1/practicals/queue')).json();
-	const waiting = queue.items.find((e) => e.courseSlug === 'packer-pressure-safety' && e.traineeName === 'Sam Okafor');
-	expect(waiting, 'Sam\u2019s waiting packer evidence').toBeTruthy();
+	const waiting = queue.items.find((e) => e.courseSlug === 'packer-pressure-safety' && e.traineeName === 'Nell Garrow');
+	expect(waiting, 'Nell\u2019s waiting packer evidence').toBeTruthy();
 	const course = parse(fs.readFileSync('content/courses/packer-pressure-safety/course.md', 'utf8').split('---')[1]);
 	const criteriaCount = course.practicalSkills.find((s: { id: string }) => s.id === waiting!.skillId).criteria.length;
 	const assessed = await trainer.post(`/api/v1/practicals/${waiting!.submissionId}/assessment`, {
@@ -34,7 +35,7 @@ test('issued on the last sign-off, verified, an altered PDF refused, revoked', a
 
 	// the holder finds the certificate on the dashboard and downloads the PDF
 	const holder = await browser.newPage({ viewport: { width: 360, height: 780 } });
-	await signInWithPassword(holder, who.trainee);
+	await signInWithPassword(holder, HOLDER);
 	const section = holder.getByTestId('my-certificates');
 	const item = section.getByRole('listitem').filter({ hasText: 'PS-150' });
 	await expect(item).toContainText('Valid');
@@ -55,7 +56,7 @@ test('issued on the last sign-off, verified, an altered PDF refused, revoked', a
 	await inspector.getByRole('button', { name: 'Check', exact: true }).click();
 	await expect(inspector).toHaveURL(new RegExp(`/verify/${number}$`));
 	await expect(inspector.locator('[data-status="valid"]')).toContainText('Valid');
-	await expect(inspector.getByTestId('holder')).toHaveText('Sam Okafor');
+	await expect(inspector.getByTestId('holder')).toHaveText('Nell Garrow');
 	await expect(inspector.locator('main')).not.toContainText('@');
 	await inspector.screenshot({ path: 'tests/.artifacts/certificates-verify-valid-360.png', fullPage: true });
 
@@ -76,7 +77,7 @@ test('issued on the last sign-off, verified, an altered PDF refused, revoked', a
 	const registrar = await browser.newPage({ viewport: { width: 360, height: 780 } });
 	await signInWithPassword(registrar, who.registrar);
 	await registrar.goto(`/registrar/certificates?q=${number}`);
-	await expect(registrar.getByTestId('waiting')).toContainText('Ade Kowal');
+	await expect(registrar.getByTestId('waiting')).toContainText('Kit Mendel');
 	const row = registrar.locator(`[data-number="${number}"]`);
 	await row.getByText('Revoke or correct the name').click();
 	await row.getByLabel('Reason').selectOption('misconduct');

@@ -182,21 +182,21 @@ describe('certificate issuance', () => {
 		await seedDemo(db);
 		const all = await listCertificatesForRegistrar('', { db });
 		const byHolder = new Map(all.map((c) => [`${c.holder}|${c.course.code}`, c]));
-		expect(byHolder.get('Sam Okafor|PR-100')?.status).toBe('valid');
-		const priya = byHolder.get('Priya Venn|PS-150')!;
+		expect(byHolder.get('Nell Garrow|PR-100')?.status).toBe('valid');
+		const priya = byHolder.get('Owen Tarrant|PS-150')!;
 		expect(priya.status).toBe('valid');
 		const daysLeft = (Date.parse(priya.expiresOn) - Date.now()) / 86_400_000;
 		expect(daysLeft).toBeGreaterThan(0);
 		expect(daysLeft).toBeLessThan(60);
-		expect(byHolder.get('Luca Marsh|PR-100')?.status).toBe('expired');
-		expect(byHolder.get('Finn Ostrander|PR-100')).toMatchObject({ status: 'revoked', revocationReason: expect.stringContaining('Issued in error') });
+		expect(byHolder.get('Ivo Brack|PR-100')?.status).toBe('expired');
+		expect(byHolder.get('Rhea Solley|PR-100')).toMatchObject({ status: 'revoked', revocationReason: expect.stringContaining('Issued in error') });
 		const waiting = (await listWaitingForOne({ db })).map((w) => `${w.name}|${w.courseSlug}|${w.missing.key}`).sort();
-		expect(waiting).toEqual(['Ade Kowal|transition-patches|test', 'Sam Okafor|packer-pressure-safety|skills']);
+		expect(waiting).toEqual(['Kit Mendel|transition-patches|test', 'Nell Garrow|packer-pressure-safety|skills']);
 	});
 
 	it("issues in the trainer's sign-off transaction when that sign-off is the last requirement", async () => {
 		await seedDemo(db);
-		const sam = await db.selectFrom('User').select('id').where('email', '=', 'sam@brindlewick.test').executeTakeFirstOrThrow();
+		const sam = await db.selectFrom('User').select('id').where('email', '=', 'nell@brindlewick.test').executeTakeFirstOrThrow();
 		const trainer = await db.selectFrom('User').select('id').where('email', '=', 'trainer@fenmoor.test').executeTakeFirstOrThrow();
 		const waiting = await db.selectFrom('practical_submission').select(['id', 'skill_id']).where('trainee_id', '=', sam.id).where('status', '=', 'waiting').executeTakeFirstOrThrow();
 		const skill = getCourse('packer-pressure-safety')!.practicalSkills.find((s) => s.id === waiting.skill_id)!;

@@ -91,22 +91,22 @@ export async function seedDemoCertificates(byEmail: Map<string, string>, db: DB,
 		return outcome.certificate;
 	};
 	// valid
-	await earn('sam@brindlewick.test', 'point-repair-installer', 60);
-	await earn('ade@tarnside.test', 'point-repair-installer', 120);
+	await earn('nell@brindlewick.test', 'point-repair-installer', 60);
+	await earn('kit@tarnside.test', 'point-repair-installer', 120);
 	// expiring soon: 24-month course issued 23 months and a few days ago
-	await earn('priya@brindlewick.test', 'packer-pressure-safety', 24 * 30.44 - 25);
+	await earn('owen@brindlewick.test', 'packer-pressure-safety', 24 * 30.44 - 25);
 	// expired
-	await earn('luca@brindlewick.test', 'point-repair-installer', 37 * 30.44);
+	await earn('ivo@brindlewick.test', 'point-repair-installer', 37 * 30.44);
 	// revoked
-	const finn = await earn('finn@tarnside.test', 'point-repair-installer', 90);
-	await revokeCertificate(registrar, finn.number, 'issued-in-error', 'Sign-offs recorded against the wrong person.', { db, now: ago(80) });
+	const rhea = await earn('rhea@tarnside.test', 'point-repair-installer', 90);
+	await revokeCertificate(registrar, rhea.number, 'issued-in-error', 'Sign-offs recorded against the wrong person.', { db, now: ago(80) });
 
-	// one requirement short: Sam's last packer sign-off is waiting for the trainer
-	const sam = byEmail.get('sam@brindlewick.test')!;
+	// one requirement short: Nell's last packer sign-off is waiting for the trainer
+	const nell = byEmail.get('nell@brindlewick.test')!;
 	const packerSkills = getCourse('packer-pressure-safety')!.practicalSkills.map((s) => s.id);
-	await recordPassedTest(sam, 'packer-pressure-safety', ago(10), db);
-	await recordSignOffs(sam, 'packer-pressure-safety', trainer, ago(8), db, packerSkills.slice(0, -1));
-	await recordWaitingEvidence(sam, 'packer-pressure-safety', packerSkills.at(-1)!, ago(2), db);
-	// Ade has every transition sign-off but has not passed that course test yet
-	await recordSignOffs(byEmail.get('ade@tarnside.test')!, 'transition-patches', trainer, ago(20), db);
+	await recordPassedTest(nell, 'packer-pressure-safety', ago(10), db);
+	await recordSignOffs(nell, 'packer-pressure-safety', trainer, ago(8), db, packerSkills.slice(0, -1));
+	await recordWaitingEvidence(nell, 'packer-pressure-safety', packerSkills.at(-1)!, ago(2), db);
+	// Kit has every transition sign-off but has not passed that course test yet
+	await recordSignOffs(byEmail.get('kit@tarnside.test')!, 'transition-patches', trainer, ago(20), db);
 }

@@ -29,5 +29,10 @@ export const DEMO_PEOPLE: DemoPerson[] = [
 	{ name: 'Luca Marsh', email: 'luca@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
 	{ name: 'Dana Whitlow', email: 'admin@tarnside.test', roles: ['trainer'], company: { name: 'Tarnside Pipe Works', role: 'admin' }, part: 'company admin and trainer, Tarnside Pipe Works' },
 	{ name: 'Ade Kowal', email: 'ade@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works', enrolments: ['point-repair-installer', 'transition-patches', 'packer-pressure-safety'] },
+	{ name: 'Nell Garrow', email: 'nell@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'holds PR-100; her last packer sign-off is waiting for the trainer', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
+	{ name: 'Owen Tarrant', email: 'owen@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'PS-150 certificate expiring within a month', enrolments: ['packer-pressure-safety'] },
+	{ name: 'Ivo Brack', email: 'ivo@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'PR-100 certificate expired', enrolments: ['point-repair-installer'] },
+	{ name: 'Rhea Solley', email: 'rhea@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'PR-100 certificate revoked (issued in error)', enrolments: ['point-repair-installer'] },
+	{ name: 'Kit Mendel', email: 'kit@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'holds PR-100; every transition sign-off, course test still to pass', enrolments: ['point-repair-installer', 'transition-patches'] },
 	{ name: 'Finn Ostrander', email: 'finn@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works', enrolments: ['point-repair-installer', 'transition-patches', 'packer-pressure-safety'] }
 ];

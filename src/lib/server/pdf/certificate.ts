@@ -2,7 +2,7 @@ import { PDFDocument, rgb, type PDFFont, type PDFPage } from 'pdf-lib';
 import { embedLora } from './fonts';
 import { drawQr } from './qr';
 import { drawWrapped } from './text';
-import { longDate } from '../../../certificates/status';
+import { longDate } from '../../certificates/status';
 
 /** What a certificate document shows; all of it comes from the certificate row. */
 export interface CertificateDocument {
