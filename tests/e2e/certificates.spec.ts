@@ -1,5 +1,6 @@
 import fs from 'node:fs';
 import { expect, request as newRequest, test } from '@playwright/test';
+import sharp from 'sharp';
 import { parse } from 'yaml';
 import { baseURL, signInRequest, signInWithPassword, who } from './support';
 
@@ -12,7 +13,16 @@ test.use({ viewport: { width: 360, height: 780 } });
 const HOLDER = 'nell@brindlewick.test';
 
 test('issued on the last sign-off, verified, an altered PDF refused, revoked', async ({ browser }) => {
-	// the trainer signs off Nell's last packer skill (the demo leaves that evidence waiting)
+	test.setTimeout(240_000);
+	// Nell sends evidence for her last packer skill; the trainer signs it off
+	const nell = await newRequest.newContext({ baseURL });
+	await signInRequest(nell, HOLDER);
+	const photo = await sharp({ create: { width: 96, height: 96, channels: 3, background: '#8a7a66' } }).jpeg().toBuffer();
+	const sent = await nell.post('/api/v1/courses/packer-pressure-safety/practicals/ppe-and-resin/evidence', {
+		headers: { origin: baseURL },
+		multipart: { note: 'Gloves, sleeves and eye protection on before opening the resin; spill kit at hand.', photos: { name: 'ppe.jpg', mimeType: 'image/jpeg', buffer: photo } }
+	});
+	expect(sent.status(), await sent.text()).toBe(201);
 	const trainer = await newRequest.newContext({ baseURL });
 	await signInRequest(trainer, who.trainer);
 	const queue: { items: { submissionId: string; courseSlug: string; skillId: string; traineeName: string }[] } = await (await trainer.get('/api/v1/practicals/queue')).json();

@@ -6,7 +6,7 @@ import { listAudit } from '$lib/server/audit';
 import { addMonths, checkNumbers, findCertificate, issueIfEarned, listWaitingForOne, reissueWithName, revokeCertificate } from '$lib/server/certificates';
 import { openDatabase } from '$lib/server/db/connect';
 import { migrateToLatest } from '$lib/server/db/migrate';
-import { recordPassedTest, recordSignOffs } from '$lib/server/demo-certificates';
+import { recordPassedTest, recordSignOffs, recordWaitingEvidence } from '$lib/server/demo-certificates';
 import { enrol } from '$lib/server/enrolments';
 import { seedDemo } from '$lib/server/demo-seed';
 import { assessSubmission } from '$lib/server/sign-offs';
@@ -198,7 +198,7 @@ describe('certificate issuance', () => {
 		await seedDemo(db);
 		const sam = await db.selectFrom('User').select('id').where('email', '=', 'nell@brindlewick.test').executeTakeFirstOrThrow();
 		const trainer = await db.selectFrom('User').select('id').where('email', '=', 'trainer@fenmoor.test').executeTakeFirstOrThrow();
-		const waiting = await db.selectFrom('practical_submission').select(['id', 'skill_id']).where('trainee_id', '=', sam.id).where('status', '=', 'waiting').executeTakeFirstOrThrow();
+		const waiting = { id: await recordWaitingEvidence(sam.id, 'packer-pressure-safety', 'ppe-and-resin', new Date(), db), skill_id: 'ppe-and-resin' };
 		const skill = getCourse('packer-pressure-safety')!.practicalSkills.find((s) => s.id === waiting.skill_id)!;
 		await assessSubmission(waiting.id, trainer.id, {
 			criteria: skill.criteria.map(() => ({ result: 'met', remark: '' })),

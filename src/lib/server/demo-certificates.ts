@@ -76,7 +76,7 @@ const DAY = 86_400_000;
 
 /**
  * The demo's certificates, dated relative to `now`: valid, expiring within a month, expired,
- * revoked, and people one requirement short (one with evidence waiting for the last sign-off).
+ * revoked, and two people one requirement short.
  */
 export async function seedDemoCertificates(byEmail: Map<string, string>, db: DB, now = new Date()): Promise<void> {
 	const ago = (days: number) => new Date(now.getTime() - days * DAY);
@@ -101,12 +101,11 @@ export async function seedDemoCertificates(byEmail: Map<string, string>, db: DB,
 	const rhea = await earn('rhea@tarnside.test', 'point-repair-installer', 90);
 	await revokeCertificate(registrar, rhea.number, 'issued-in-error', 'Sign-offs recorded against the wrong person.', { db, now: ago(80) });
 
-	// one requirement short: Nell's last packer sign-off is waiting for the trainer
+	// one requirement short: Nell has every packer sign-off but the PPE one (she sends that evidence in the demo)
 	const nell = byEmail.get('nell@brindlewick.test')!;
-	const packerSkills = getCourse('packer-pressure-safety')!.practicalSkills.map((s) => s.id);
+	const packerSkills = getCourse('packer-pressure-safety')!.practicalSkills.map((s) => s.id).filter((id) => id !== 'ppe-and-resin');
 	await recordPassedTest(nell, 'packer-pressure-safety', ago(10), db);
-	await recordSignOffs(nell, 'packer-pressure-safety', trainer, ago(8), db, packerSkills.slice(0, -1));
-	await recordWaitingEvidence(nell, 'packer-pressure-safety', packerSkills.at(-1)!, ago(2), db);
+	await recordSignOffs(nell, 'packer-pressure-safety', trainer, ago(8), db, packerSkills);
 	// Kit has every transition sign-off but has not passed that course test yet
 	await recordSignOffs(byEmail.get('kit@tarnside.test')!, 'transition-patches', trainer, ago(20), db);
 }
