@@ -1,4 +1,4 @@
-import { expect, request as newRequest, test } from '@playwright/test';
+import { expect, request as newRequest, test, type APIResponse } from '@playwright/test';
 import { baseURL, signInRequest, who, type Identity } from './support';
 
 /**
@@ -6,7 +6,7 @@ import { baseURL, signInRequest, who, type Identity } from './support';
  * Every page and API route that exists so far is listed; later features add rows.
  */
 type Expect = 'ok' | 'in' | 'dash' | 401 | 403 | 404;
-const identities: Identity[] = ['anonymous', 'trainee', 'trainer', 'companyAdmin', 'inspector', 'registrar'];
+const identities: Identity[] = ['anonymous', 'trainee', 'trainer', 'companyTrainer', 'companyAdmin', 'inspector', 'registrar'];
 
 const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expect }][] = [
 	['/', 'ok'],
@@ -14,10 +14,12 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/sign-in', { anonymous: 'ok', other: 'dash' }],
 	['/sign-up', { anonymous: 'ok', other: 'dash' }],
 	['/reset-password', 'ok'],
+	['/sign-up/check-email', 'ok'],
+	['/sign-up/confirm/not-a-real-token', 'ok'],
 	['/dashboard', { anonymous: 'in', other: 'ok' }],
 	['/trainer', { anonymous: 'in', trainer: 'ok', other: 403 }],
 	['/inspector', { anonymous: 'in', inspector: 'ok', other: 403 }],
-	['/company', { anonymous: 'in', companyAdmin: 'ok', other: 403 }],
+	['/company', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
 	['/registrar/people', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/registrar/audit', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/api/v1/health', 'ok'],
@@ -64,9 +66,20 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/certificates/0000-0000-0000-0000/a4.pdf', { anonymous: 'in', other: 404 }]
 ];
 
+const codes: Record<number, string> = { 400: 'bad_request', 401: 'unauthorized', 403: 'forbidden', 404: 'not_found', 409: 'conflict', 413: 'payload_too_large', 415: 'unsupported_media_type' };
+
+/** Every API refusal is JSON in the one shape: {error: {code, message}}, never HTML, never cached. */
+async function expectApiError(response: APIResponse, status: number, label: string) {
+	expect(response.headers()['content-type'], label).toMatch(/^application\/json/);
+	expect(response.headers()['cache-control'], label).toBe('no-store');
+	const body = await response.json();
+	expect(body.error, label).toMatchObject({ code: codes[status], message: expect.any(String) });
+}
+
 function expected(rule: (typeof table)[number][1], identity: Identity): Expect {
 	if (typeof rule !== 'object') return rule;
-	return rule[identity] ?? rule.other;
+	// A company's own trainer opens the trainer pages as any trainer does; what they show is scoped (tested below).
+	return rule[identity] ?? (identity === 'companyTrainer' ? rule.trainer : undefined) ?? rule.other;
 }
 
 for (const identity of identities) {
@@ -85,6 +98,7 @@ for (const identity of identities) {
 				expect(response.status(), label).toBe(303);
 				expect(response.headers().location, label).toBe('/dashboard');
 			} else expect(response.status(), label).toBe(want);
+			if (typeof want === 'number' && path.startsWith('/api/')) await expectApiError(response, want, label);
 			if (want === 403) {
 				// A refusal leaks nothing of the page behind it, such as other people's addresses.
 				const body = await response.text();
@@ -117,6 +131,11 @@ test('the registrar grants a role, the person gains the page, and the audit log 
 	await page.goto(`/registrar/people?q=priya`);
 	await page.getByRole('button', { name: `Remove Trainer for ${person}` }).click();
 	await expect(page.getByRole('status')).toContainText('Removed trainer');
+	// Removing a role ends the person's sessions: whatever was open with it is closed.
+	const after = await priya.get('/trainer', { maxRedirects: 0 });
+	expect(after.status()).toBe(303);
+	expect(after.headers().location).toMatch(/^\/sign-in\?next=/);
+	await signInRequest(priya, person);
 	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(403);
 	await registrar.dispose();
 	await priya.dispose();
@@ -136,6 +155,28 @@ test('a role change with a forged person id is refused with a clear message', as
 	await registrar.dispose();
 });
 
+test('only a registrar can sign someone out everywhere', async () => {
+	for (const identity of ['trainer', 'companyAdmin', 'inspector'] as const) {
+		const client = await newRequest.newContext({ baseURL });
+		await signInRequest(client, who[identity]);
+		const response = await client.post('/registrar/people?/signOutEverywhere', {
+			form: { userId: crypto.randomUUID() },
+			headers: { origin: baseURL, accept: 'application/json' }
+		});
+		expect(response.status(), identity).toBe(403);
+		expect((await client.get('/api/v1/me')).status(), `${identity} still signed in`).toBe(200);
+		await client.dispose();
+	}
+	const registrar = await newRequest.newContext({ baseURL });
+	await signInRequest(registrar, who.registrar);
+	const forged = await registrar.post('/registrar/people?/signOutEverywhere', {
+		form: { userId: '__proto__' },
+		headers: { origin: baseURL, accept: 'application/json' }
+	});
+	expect((await forged.json()).status).toBe(400);
+	await registrar.dispose();
+});
+
 test('the registrar enrols a person in a course, recorded in the audit log', async ({ page }) => {
 	await page.context().addCookies(await (async () => {
 		const registrar = await newRequest.newContext({ baseURL });
@@ -152,7 +193,9 @@ test('the registrar enrols a person in a course, recorded in the audit log', asy
 		headers: { origin: baseURL, accept: 'text/html' },
 		maxRedirects: 0
 	});
-	expect(signUp.status()).toBe(302);
+	// A password account waits for its address to be confirmed.
+	expect(signUp.status()).toBe(303);
+	expect(signUp.headers().location).toBe('/sign-up/check-email');
 	await newcomer.dispose();
 
 	await page.goto(`/registrar/people?q=${encodeURIComponent(email)}`);
@@ -164,4 +207,62 @@ test('the registrar enrols a person in a course, recorded in the audit log', asy
 	await expect(person).toContainText('Enrolled: TP-200');
 	await page.goto('/registrar/audit');
 	await expect(page.getByRole('row').filter({ hasText: 'enrolment.create' }).first()).toContainText('transition-patches');
+});
+
+test("a company's own trainer works with that company's crew only; the provider's trainer with everyone", async () => {
+	const crew = async (email: string) => {
+		const person = await newRequest.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
+		await signInRequest(person, email);
+		const started = await person.post('/api/v1/courses/packer-pressure-safety/attempts', { data: {} });
+		expect(started.status(), email).toBe(201);
+		const id: string = (await started.json()).attempt.id;
+		expect((await person.post(`/api/v1/attempts/${id}/submit`, { data: {} })).status(), email).toBe(200);
+		await person.dispose();
+		return id;
+	};
+	const otherCompany = await crew('luca@brindlewick.test');
+	const ownCrew = await crew('finn@tarnside.test');
+
+	const companyTrainer = await newRequest.newContext({ baseURL });
+	await signInRequest(companyTrainer, who.companyTrainer);
+	const list = await companyTrainer.get('/trainer/attempts?course=packer-pressure-safety');
+	expect(list.status()).toBe(200);
+	const listed = await list.text();
+	expect(listed).toContain('finn@tarnside.test');
+	expect(listed).not.toContain('luca@brindlewick.test');
+	expect((await companyTrainer.get(`/trainer/attempts/${ownCrew}`)).status()).toBe(200);
+	const hidden = await companyTrainer.get(`/trainer/attempts/${otherCompany}`);
+	expect(hidden.status()).toBe(404);
+	expect(await hidden.text()).not.toContain('luca@brindlewick.test');
+	const retake = (attemptId: string) =>
+		companyTrainer.post('/trainer/attempts?/allowRetake', { form: { attemptId }, headers: { origin: baseURL, accept: 'application/json' } });
+	expect(await (await retake(otherCompany)).json()).toMatchObject({ type: 'failure', status: 404 });
+	expect(await (await retake(ownCrew)).json()).toMatchObject({ type: 'success' });
+	await companyTrainer.dispose();
+
+	const provider = await newRequest.newContext({ baseURL });
+	await signInRequest(provider, who.trainer);
+	expect((await provider.get(`/trainer/attempts/${otherCompany}`)).status()).toBe(200);
+	expect(await (await provider.get('/trainer/attempts?course=packer-pressure-safety')).text()).toContain('luca@brindlewick.test');
+	await provider.dispose();
+});
+
+test('the registrar limits a trainer to one company and back', async ({ page }) => {
+	const registrar = await newRequest.newContext({ baseURL });
+	await signInRequest(registrar, who.registrar);
+	await page.context().addCookies((await registrar.storageState()).cookies);
+	await registrar.dispose();
+	await page.setViewportSize({ width: 360, height: 800 });
+	await page.goto('/registrar/people?q=trainer%40fenmoor');
+	const person = page.getByRole('listitem').filter({ hasText: who.trainer });
+	await expect(person.getByTestId('trainer-scope')).toContainText('everyone');
+	await person.getByLabel(`Trainer ${who.trainer} works with`).selectOption({ label: 'Brindlewick Drainage crew only' });
+	await person.getByRole('button', { name: `Set whose crew ${who.trainer} trains` }).click();
+	await expect(page.getByRole('status')).toContainText('that company’s crew only');
+	await expect(person.getByTestId('trainer-scope')).toContainText('Brindlewick Drainage crew only');
+	await person.getByLabel(`Trainer ${who.trainer} works with`).selectOption({ label: 'Everyone (training provider’s trainer)' });
+	await person.getByRole('button', { name: `Set whose crew ${who.trainer} trains` }).click();
+	await expect(person.getByTestId('trainer-scope')).toContainText('everyone');
+	await page.goto('/registrar/audit');
+	await expect(page.getByRole('row').filter({ hasText: 'role.trainer-scope' }).first()).toBeVisible();
 });

@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
+import { reloadConfig } from '$lib/server/config';
 import type { DB } from '$lib/server/db';
 import { enrol } from '$lib/server/enrolments';
 import { createUser } from '$lib/server/users';
@@ -9,6 +10,7 @@ import { createUser } from '$lib/server/users';
 export function useTemporaryDataDir(): string {
 	const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'pw-certs-'));
 	process.env.DATA_DIR = dir;
+	reloadConfig();
 	return dir;
 }
 

@@ -10,6 +10,7 @@ import { issueIfEarned, type CertificateRow } from '$lib/server/certificates';
 import { checkUploadedPdf, issuedDocument } from '$lib/server/certificate-documents';
 import { issuerId, publishedJwks, verifyCredentialJwt } from '$lib/server/credential';
 import { recordPassedTest, recordSignOffs } from '$lib/server/demo-certificates';
+import { reloadConfig } from '$lib/server/config';
 import { createTestDb } from '../helpers/db';
 import { makeTraineeAndTrainer, useTemporaryDataDir } from '../helpers/certificates';
 
@@ -22,8 +23,8 @@ describe('certificate documents and the credential', () => {
 	let a4: Uint8Array;
 
 	beforeAll(async () => {
-		dataDir = useTemporaryDataDir();
 		process.env.ORIGIN = 'http://verify.example.test';
+		dataDir = useTemporaryDataDir();
 		db = await createTestDb();
 		const { trainee, trainer } = await makeTraineeAndTrainer(db, 'point-repair-installer', 'Zoë Łukasiewicz');
 		await recordPassedTest(trainee.id, 'point-repair-installer', day('2026-09-01'), db);
@@ -35,6 +36,7 @@ describe('certificate documents and the credential', () => {
 	});
 	afterAll(async () => {
 		delete process.env.ORIGIN;
+		reloadConfig();
 		await db.destroy();
 	});
 

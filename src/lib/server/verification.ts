@@ -4,25 +4,21 @@ import { checkNumbers, CREW_CHECK_LIMIT, findCertificate, type CrewRow, type Pub
 import { checkUploadedPdf } from './certificate-documents';
 import { verifyCredentialJwt } from './credential';
 import { db as defaultDb, type DB } from './db';
-import { hit } from './rate-limit';
+import { config } from './config';
+import { hit, scaledLimit } from './rate-limit';
 
 /**
  * Public verification: the same answers for the pages and the JSON API. Lookups are limited
  * per client address so numbers cannot be enumerated; a malformed and an unknown number get
  * the same answer after the same work (one indexed lookup each).
  */
-export const LOOKUP_LIMIT = {
-	bucket: 'certificate-lookup',
-	get perMinute() {
-		return Number(process.env.CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE || 120);
-	},
-	windowMs: 60_000
-};
+const LOOKUP_BUCKET = 'certificate-lookup';
 
 /** Charges `count` lookups to an address; returns seconds to wait when over the limit, else 0. */
-export function chargeLookups(address: string, count = 1): number {
+export async function chargeLookups(address: string, count = 1): Promise<number> {
+	const limit = scaledLimit(config.certificateLookupsPerMinute);
 	let verdict = { ok: true, retryAfterSeconds: 0 };
-	for (let i = 0; i < Math.max(1, count); i++) verdict = hit(LOOKUP_LIMIT.bucket, address, LOOKUP_LIMIT.perMinute, LOOKUP_LIMIT.windowMs);
+	for (let i = 0; i < Math.max(1, count) && verdict.ok; i++) verdict = await hit(LOOKUP_BUCKET, address, limit, 60_000);
 	return verdict.ok ? 0 : verdict.retryAfterSeconds;
 }
 

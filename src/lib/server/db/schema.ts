@@ -48,6 +48,8 @@ export interface UserRoleTable {
 	role: PlatformRole;
 	granted_at: string;
 	granted_by: string | null;
+	/** Trainer grants only: null for the training provider's trainer (everyone), else the one company whose crew this trainer works with. */
+	company_id: Generated<string | null>;
 }
 
 export interface CompanyTable {
@@ -64,6 +66,26 @@ export interface MembershipTable {
 }
 
 export interface PasswordResetTable {
+	token_hash: string;
+	user_id: string;
+	expires_at: string;
+	used_at: string | null;
+}
+
+/** A signed-in session; the session cookie carries its id. Ended sessions keep their row for the record. */
+export interface UserSessionTable {
+	id: string;
+	user_id: string;
+	created_at: string;
+	last_seen_at: string;
+	/** The latest moment it may be used, however active (SESSION_MAX_DAYS after sign-in). */
+	expires_at: string;
+	ended_at: string | null;
+	ended_why: 'sign-out' | 'password-reset' | 'role-removed' | 'signed-out-everywhere' | null;
+}
+
+/** A link that confirms the address of an account created with a password (only the hash is kept). */
+export interface AddressConfirmationTable {
 	token_hash: string;
 	user_id: string;
 	expires_at: string;
@@ -246,6 +268,8 @@ export interface Database {
 	company: CompanyTable;
 	membership: MembershipTable;
 	password_reset: PasswordResetTable;
+	user_session: UserSessionTable;
+	address_confirmation: AddressConfirmationTable;
 	audit_log: AuditLogTable;
 	enrolment: EnrolmentTable;
 	lesson_progress: LessonProgressTable;
