@@ -4,7 +4,7 @@ import { recordAudit } from './audit';
 import { config } from './config';
 import { signCredential } from './credential';
 import { db as defaultDb, inTransaction, type DB } from './db';
-import { isUniqueViolation } from './db/errors';
+import { isDatabaseBusy, isUniqueViolation } from './db/errors';
 import type { CertificateTable } from './db/schema';
 import { signedOffSkills } from './sign-offs';
 
@@ -232,13 +232,15 @@ export async function issueIfEarned(
 		);
 		return { issued: true, certificate };
 	});
-	let outcome: IssueOutcome;
-	try {
-		outcome = await attempt();
-	} catch (e) {
-		// another process issued (or changed something) between our read and our write: look again
-		if (db.isTransaction || !isWriteConflict(e)) throw e;
-		outcome = await attempt();
+	let outcome: IssueOutcome | undefined;
+	for (let tries = 0; !outcome; tries++) {
+		try {
+			outcome = await attempt();
+		} catch (e) {
+			// another process holds the write lock or issued meanwhile: wait a moment and look again
+			if (db.isTransaction || !(isWriteConflict(e) || isDatabaseBusy(e)) || tries >= 8) throw e;
+			await new Promise((r) => setTimeout(r, 25 * (tries + 1)));
+		}
 	}
 	if (outcome.issued) {
 		// a new certificate can complete the prerequisites of another course the person is enrolled in
