@@ -53,7 +53,8 @@ export default defineConfig({
 				SEED_DEMO: '1',
 				SIGN_IN_LIMIT_PER_IP: '100000',
 				// Evidence uploads: 8 files of 12 MB plus the form (the upload route enforces its own caps).
-				BODY_SIZE_LIMIT: '100M'
+				BODY_SIZE_LIMIT: '100M',
+				CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: '100000'
 			},
 			stdout: 'pipe'
 		}

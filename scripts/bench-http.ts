@@ -51,7 +51,7 @@ export interface LoadResult {
 	tooMany: number;
 }
 
-function freePort(): Promise<number> {
+export function freePort(): Promise<number> {
 	return new Promise((resolve, reject) => {
 		const server = createServer();
 		server.once('error', reject);
@@ -62,7 +62,7 @@ function freePort(): Promise<number> {
 	});
 }
 
-async function waitFor(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
+export async function waitFor(url: string, child: ChildProcess, timeoutMs = 60_000): Promise<void> {
 	const until = Date.now() + timeoutMs;
 	while (Date.now() < until) {
 		if (child.exitCode !== null) throw new Error(`${url}: the server exited with code ${child.exitCode}`);
@@ -76,7 +76,7 @@ async function waitFor(url: string, child: ChildProcess, timeoutMs = 60_000): Pr
 	throw new Error(`${url} did not answer within ${timeoutMs / 1000} s`);
 }
 
-function stop(child: ChildProcess): Promise<void> {
+export function stop(child: ChildProcess): Promise<void> {
 	if (child.exitCode !== null) return Promise.resolve();
 	return new Promise((resolve) => {
 		const force = setTimeout(() => child.kill('SIGKILL'), 10_000);
@@ -100,7 +100,7 @@ async function startBare(): Promise<{ url: string; child: ChildProcess }> {
 	return { url, child };
 }
 
-async function startApp(buildDir: string): Promise<{ url: string; child: ChildProcess; dataDir: string }> {
+export async function startApp(buildDir: string): Promise<{ url: string; child: ChildProcess; dataDir: string }> {
 	const port = await freePort();
 	const dataDir = mkdtempSync(path.join(tmpdir(), 'patchwright-bench-'));
 	const url = `http://127.0.0.1:${port}`;
@@ -120,7 +120,8 @@ async function startApp(buildDir: string): Promise<{ url: string; child: ChildPr
 			FAKES: '0',
 			SIGN_IN_LIMIT_PER_IP: '1000000',
 			SIGN_IN_LIMIT_PER_EMAIL: '1000000',
-			RATE_LIMIT_FACTOR: '1000000'
+			RATE_LIMIT_FACTOR: '1000000',
+			CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: '1000000000'
 		},
 		stdio: ['ignore', 'ignore', 'inherit']
 	});
@@ -141,7 +142,7 @@ export async function signIn(baseUrl: string, email: string, password: string): 
 	return cookies.join('; ');
 }
 
-function load(url: string, target: Target, cookie: string | null, seconds: number): Promise<LoadResult> {
+export function load(url: string, target: Target, cookie: string | null, seconds: number): Promise<LoadResult> {
 	const headers: Record<string, string> = {};
 	if (target.body) headers['content-type'] = 'application/json';
 	if (target.signedIn && cookie) headers.cookie = cookie;
@@ -164,7 +165,7 @@ function load(url: string, target: Target, cookie: string | null, seconds: numbe
 	});
 }
 
-async function measure(url: string, target: Target, cookie: string | null): Promise<LoadResult> {
+export async function measure(url: string, target: Target, cookie: string | null): Promise<LoadResult> {
 	await load(url, target, cookie, WARM_UP_SECONDS);
 	return load(url, target, cookie, SECONDS);
 }

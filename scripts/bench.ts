@@ -2,7 +2,8 @@
  * `npm run bench`: how fast the trade calculations run in process, then the built app over
  * HTTP beside a bare node:http + SQLite server, and page weight in Chromium
  * (scripts/bench-http.ts; needs `npm run build` first). `npm run bench -- calc` runs only the
- * in-process part, `npm run bench -- http` only the HTTP part.
+ * in-process part, `npm run bench -- http` only the HTTP part, `npm run bench -- certificates`
+ * only the certificate PDF and look-up figures (scripts/bench-certificates.ts).
  * In-process sections are independent functions; add one (for example problems generated and graded
  * per second) by writing another function that returns BenchResult rows and listing it in
  * `sections` below.
@@ -12,6 +13,7 @@ import { calculators, defaultInputs, runCalculation } from '../src/lib/calc/inde
 import { checkAnswer, expectedAmount, generateProblem, listGenerators, type Problem } from '../src/lib/practice/index.ts';
 import { bench, printSection, type BenchResult } from './bench-lib.ts';
 import { runHttpBench } from './bench-http.ts';
+import { lookupBench, pdfBench } from './bench-certificates.ts';
 
 const PER_CALCULATOR = 20_000;
 
@@ -80,5 +82,12 @@ const sections: [string, () => BenchResult[]][] = [
 ];
 
 const only = process.argv[2];
-if (only !== 'http') for (const [title, run] of sections) printSection(title, run());
-if (only !== 'calc') await runHttpBench();
+if (only === 'certificates') {
+	await pdfBench();
+	await lookupBench();
+} else {
+	if (only !== 'http') for (const [title, run] of sections) printSection(title, run());
+	if (only !== 'http') await pdfBench();
+	if (only !== 'calc') await runHttpBench();
+	if (only !== 'calc') await lookupBench();
+}

@@ -11,6 +11,7 @@ import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
 import { fillLessonBodySlot } from '$lib/server/lesson-html';
 import { seedDemoPracticals } from '$lib/server/demo-practicals';
+import { issuerKey } from '$lib/server/issuer-key';
 import { withRequestContext } from '$lib/server/request-context';
 import { sessionIdFromCookie } from '$lib/server/session-cookie';
 import { identityForSession } from '$lib/server/sessions';
@@ -22,6 +23,8 @@ export const init: ServerInit = async () => {
 		const config = loadConfig();
 		authSecret();
 		await migrateToLatest(getDb());
+		// the certificate signing key exists from the first start, before anything is issued
+		await issuerKey();
 		if (config.seedDemo && (await seedDemo())) {
 			await seedDemoPracticals();
 			console.log('Seeded the demo scenario.');

@@ -66,7 +66,19 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/evidence-files/no-such-file', { anonymous: 'in', other: 404 }],
 	['/api/v1/courses/point-repair-installer/practicals', { anonymous: 401, trainee: 'ok', other: 403 }],
 	['/api/v1/courses/no-such-course/practicals', { anonymous: 401, other: 404 }],
-	['/api/v1/practicals/queue', { anonymous: 401, trainer: 'ok', other: 403 }]
+	['/api/v1/practicals/queue', { anonymous: 401, trainer: 'ok', other: 403 }],
+	['/verify', 'ok'],
+	['/verify?number=abc', 'ok'],
+	['/verify/0000-0000-0000-0000', 'ok'],
+	['/registrar/certificates', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	['/inspector/checks/no-such-check', { anonymous: 'in', inspector: 404, other: 403 }],
+	['/api/v1/certificates/0000-0000-0000-0000', 404],
+	['/api/v1/certificates/__proto__', 404],
+	['/.well-known/jwks.json', 'ok'],
+	['/issuer', 'ok'],
+	['/contexts/ob/v3p0/context-3.0.3.json', 'ok'],
+	['/contexts/ob/v3p0/no-such.json', 404],
+	['/certificates/0000-0000-0000-0000/a4.pdf', { anonymous: 'in', other: 404 }]
 ];
 
 const codes: Record<number, string> = { 400: 'bad_request', 401: 'unauthorized', 403: 'forbidden', 404: 'not_found', 409: 'conflict', 413: 'payload_too_large', 415: 'unsupported_media_type' };

@@ -37,6 +37,7 @@ import {
 	type RunnerView
 } from '$lib/practice/test-items';
 import { recordAudit } from './audit';
+import { issueIfEarned } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import type { TestAttemptTable } from './db/schema';
 import { isEnrolled } from './enrolments';
@@ -200,6 +201,8 @@ async function close(db: DB, row: Row, closedBy: 'person' | 'time limit', at: Da
 				},
 				trx
 			);
+			// passing can be the last requirement met: the certificate comes in the same transaction
+			if (passed === 1) await issueIfEarned(row.user_id, row.course_slug, { db: trx, now: at, actorId });
 		}
 		return (await trx.selectFrom('test_attempt').selectAll().where('id', '=', row.id).executeTakeFirstOrThrow()) as Row;
 	});

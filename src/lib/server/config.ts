@@ -41,7 +41,14 @@ const settings = z.object({
 	DB_BUSY_TIMEOUT_MS: wholeNumber(100, 0),
 	/** A session ends after this long without a request, and in any case after SESSION_MAX_DAYS. */
 	SESSION_IDLE_HOURS: wholeNumber(12),
-	SESSION_MAX_DAYS: wholeNumber(7)
+	SESSION_MAX_DAYS: wholeNumber(7),
+	/** Public origin for links that leave the app (QR codes, credential ids); adapter-node reads it too. */
+	ORIGIN: z.string().optional(),
+	PORT: z.string().optional(),
+	/** The training provider named on certificates. */
+	ISSUER_NAME: z.string().optional().transform((s) => s?.trim() || 'Fenmoor Training Yard'),
+	/** Certificate look-ups per client address per minute (verify pages and API), before RATE_LIMIT_FACTOR. */
+	CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: wholeNumber(120)
 });
 
 export type Config = ReturnType<typeof shape>;
@@ -60,7 +67,10 @@ function shape(env: z.output<typeof settings>) {
 		rateLimitFactor: env.RATE_LIMIT_FACTOR,
 		dbBusyTimeoutMs: env.DB_BUSY_TIMEOUT_MS,
 		sessionIdleMs: env.SESSION_IDLE_HOURS * 60 * 60 * 1000,
-		sessionMaxAgeSeconds: env.SESSION_MAX_DAYS * 24 * 60 * 60
+		sessionMaxAgeSeconds: env.SESSION_MAX_DAYS * 24 * 60 * 60,
+		origin: (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, ''),
+		issuerName: env.ISSUER_NAME,
+		certificateLookupsPerMinute: env.CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE
 	};
 }
 

@@ -5,6 +5,7 @@ import { grantRole, setTrainerScope } from './roles';
 import { createUser } from './users';
 import { hashPassword } from './passwords';
 import { enrol } from './enrolments';
+import { seedDemoCertificates } from './demo-certificates';
 
 /** Seeds the invented demo scenario into an empty database; does nothing otherwise. */
 export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
@@ -13,15 +14,18 @@ export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
 	const passwordHash = await hashPassword(DEMO_PASSWORD);
 	await inTransaction(db, async (trx) => {
 		const companyIds = new Map<string, string>();
+		const byEmail = new Map<string, string>();
 		for (const name of DEMO_COMPANIES) companyIds.set(name, (await createCompany(null, name, trx)).id);
 		for (const person of DEMO_PEOPLE) {
 			const user = await createUser({ email: person.email, name: person.name, emailVerified: true }, trx);
+			byEmail.set(person.email, user.id);
 			await trx.updateTable('User').set({ passwordHash }).where('id', '=', user.id).execute();
 			for (const role of person.roles) await grantRole(null, user.id, role, trx);
 			if (person.company) await addMember(null, companyIds.get(person.company.name)!, user.id, person.company.role, trx);
 			if (person.company && person.companyTrainer) await setTrainerScope(null, user.id, companyIds.get(person.company.name)!, trx);
 			for (const course of person.enrolments ?? []) await enrol(null, user.id, course, 'demo', trx);
 		}
+		await seedDemoCertificates(byEmail, trx);
 	});
 	return true;
 }

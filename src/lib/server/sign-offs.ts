@@ -5,6 +5,7 @@ import { checkReadings, type Reading, type TypedReadings } from '$lib/practicals
 import type { AssessmentView, CriterionResult, EvidenceFileView, SkillState } from '$lib/practicals/states';
 export type { AssessmentView, EvidenceFileView } from '$lib/practicals/states';
 import { recordAudit } from './audit';
+import { issueIfEarned } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { isUniqueViolation } from './db/errors';
 import { isEnrolled } from './enrolments';
@@ -532,6 +533,8 @@ async function recordAssessment(
 		},
 		trx
 	);
+	// the last sign-off can complete the course: the certificate comes in the same transaction
+	if (signOffId) await issueIfEarned(submission.traineeId, submission.courseSlug, { db: trx, actorId: trainerId });
 	return { submissionId: submission.id, outcome: input.outcome, signOffId, ...submission };
 }
 

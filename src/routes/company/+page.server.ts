@@ -2,6 +2,7 @@ import { error } from '@sveltejs/kit';
 import { getCourse } from '$lib/content';
 import { requireCompanyAdmin } from '$lib/server/authz';
 import { crewProgress } from '$lib/server/dashboard';
+import { listCertificatesOfCompany } from '$lib/server/certificates';
 import { crewSignOffCounts } from '$lib/server/sign-offs';
 import type { PageServerLoad } from './$types';
 
@@ -18,5 +19,5 @@ export const load: PageServerLoad = async (event) => {
 		signedOff: c.signedOff,
 		total: c.total
 	}));
-	return { company, companies: adminOf, members, signOffs };
+	return { company, companies: adminOf, members, signOffs, certificates: await listCertificatesOfCompany(company.id) };
 };

@@ -1,5 +1,8 @@
 import { requireUser } from '$lib/server/authz';
 import { crewProgress, registrarCounts, traineeStandings, trainerDesk } from '$lib/server/dashboard';
+import { listCertificatesOf } from '$lib/server/certificates';
+import { config } from '$lib/server/config';
+import { recentCrewChecks } from '$lib/server/crew-checks';
 import { queueCount } from '$lib/server/sign-offs';
 import type { PageServerLoad } from './$types';
 
@@ -8,7 +11,7 @@ export const load: PageServerLoad = async (event) => {
 	const user = requireUser(event);
 	const adminOf = user.companies.filter((c) => c.role === 'admin');
 	const staff = user.roles.includes('trainer') || user.roles.includes('registrar');
-	const [standings, companies, desk, practicalQueue, counts] = await Promise.all([
+	const [standings, companies, desk, practicalQueue, counts, certificates, recentChecks] = await Promise.all([
 		traineeStandings(user.id),
 		Promise.all(
 			adminOf.map(async (c) => {
@@ -24,7 +27,9 @@ export const load: PageServerLoad = async (event) => {
 		),
 		staff ? trainerDesk(user.id) : null,
 		user.roles.includes('trainer') ? queueCount(user.id) : null,
-		user.roles.includes('registrar') ? registrarCounts() : null
+		user.roles.includes('registrar') ? registrarCounts() : null,
+		listCertificatesOf(user.id),
+		user.roles.includes('inspector') ? recentCrewChecks(user.id, 3) : []
 	]);
-	return { standings, companies, desk, practicalQueue, counts };
+	return { standings, companies, desk, practicalQueue, counts, certificates, origin: config.origin, recentChecks };
 };

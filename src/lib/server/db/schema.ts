@@ -227,6 +227,57 @@ export interface SignOffTable {
 	void_reason: string | null;
 }
 
+/** An issued certificate; what it shows is copied at issue and never follows later edits. */
+export interface CertificateTable {
+	id: string;
+	/** Canonical number, 16 Crockford base32 symbols grouped XXXX-XXXX-XXXX-XXXX. */
+	number: string;
+	/** `<user id>|<course slug>` on the certificate holding the person's place for the course; null once replaced. */
+	slot: string | null;
+	user_id: string;
+	course_slug: string;
+	holder_name: string;
+	course_code: string;
+	course_title: string;
+	scope: string;
+	diameter_min_mm: number;
+	diameter_max_mm: number;
+	/** YYYY-MM-DD (UTC) of the latest sign-off and of the passed test. */
+	practical_on: string;
+	test_on: string;
+	issued_at: string;
+	issued_on: string;
+	expires_on: string;
+	/** JSON: [{ id, name }] of the trainers who signed off. */
+	trainers: string;
+	issuer_name: string;
+	credential_jwt: string;
+	revoked_at: string | null;
+	revoked_by: string | null;
+	revocation_reason: string | null;
+	replaces_id: string | null;
+	replaced_by_id: string | null;
+}
+
+/** One issued PDF of a certificate; its SHA-256 identifies the genuine file on upload. */
+export interface CertificateFileTable {
+	certificate_id: string;
+	format: 'a4' | 'letter' | 'card';
+	sha256: string;
+	size_bytes: number;
+	storage_key: string;
+	created_at: string;
+}
+
+/** An inspector's crew check: the answers as they were at that moment (JSON rows). */
+export interface CrewCheckTable {
+	id: string;
+	inspector_id: string;
+	checked_at: string;
+	label: string;
+	results: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -248,6 +299,9 @@ export interface Database {
 	evidence_file: EvidenceFileTable;
 	practical_assessment: PracticalAssessmentTable;
 	sign_off: SignOffTable;
+	certificate: CertificateTable;
+	certificate_file: CertificateFileTable;
+	crew_check: CrewCheckTable;
 }
 
 export type User = Selectable<UserTable>;
