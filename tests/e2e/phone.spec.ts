@@ -28,14 +28,15 @@ const pagesByRole: Record<'visitor' | keyof typeof who, string[]> = {
 	trainee: [
 		'/dashboard',
 		'/courses',
-		...courseSlugs.flatMap((c) => [`/courses/${c}`, `/courses/${c}/practice`, `/courses/${c}/test`]),
+		...courseSlugs.flatMap((c) => [`/courses/${c}`, `/courses/${c}/practice`, `/courses/${c}/test`, `/courses/${c}/practicals`]),
 		'/courses/point-repair-installer/wet-out',
 		'/courses/transition-patches/sizing-the-taper'
 	],
-	trainer: ['/dashboard', '/trainer', '/trainer/attempts', ...courseSlugs.map((c) => `/trainer/attempts/items?course=${c}`)],
+	trainer: ['/dashboard', '/trainer', '/trainer/attempts', '/trainer/practicals', '/trainer/practicals/in-person', ...courseSlugs.map((c) => `/trainer/attempts/items?course=${c}`)],
+	companyTrainer: ['/dashboard', '/trainer', '/trainer/attempts', '/trainer/practicals'],
 	companyAdmin: ['/dashboard', '/company'],
-	inspector: ['/dashboard', '/inspector'],
-	registrar: ['/dashboard', '/registrar/people', '/registrar/audit', '/trainer/attempts']
+	inspector: ['/dashboard', '/inspector', '/verify'],
+	registrar: ['/dashboard', '/registrar/people', '/registrar/audit', '/registrar/sign-offs', '/registrar/certificates', '/trainer/attempts']
 };
 
 /** What is wrong with the page at phone width, as sentences (empty when nothing is). */

@@ -160,6 +160,8 @@ export interface TestItemResultTable {
 	correct: 0 | 1;
 	answered: 0 | 1;
 	hint: string | null;
+}
+
 export type SubmissionStatus = 'waiting' | 'withdrawn' | 'returned' | 'signed off';
 export type AssessmentOutcome = 'signed off' | 'returned';
 

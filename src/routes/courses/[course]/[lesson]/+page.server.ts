@@ -29,7 +29,7 @@ export const load: PageServerLoad = async (event) => {
 	const enrolled = state === 'enrolled';
 	const [body, doneLessons] = await Promise.all([
 		lessonHtml(lesson),
-		enrolled ? getCourseProgress(locals.user!.id, course).then((p) => p.doneLessons) : []
+		enrolled ? getCourseProgress(locals.user!.id, course).then((p) => p.doneLessons) : ([] as string[])
 	]);
 	// A full page gets the body from the lessonBody hook; client-side navigation gets it here.
 	if (!event.isDataRequest) locals.lessonBody = body.html;
