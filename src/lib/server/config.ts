@@ -23,6 +23,10 @@ export const config = {
 	get fakeInboxUrl() {
 		return env.FAKES === '1' ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null;
 	},
+	/** The fake payment service's page (sessions, payments, events); shown only when fakes are enabled. */
+	get fakePaymentsUrl() {
+		return env.FAKES === '1' ? env.FAKE_PAYMENTS_URL || null : null;
+	},
 	get seedDemo() {
 		return env.SEED_DEMO === '1';
 	}
@@ -37,4 +41,34 @@ export const signInLimits = {
 		return Number(env.SIGN_IN_LIMIT_PER_IP || 30);
 	},
 	windowMs: 15 * 60 * 1000
+};
+
+/**
+ * The payment service, reached through the `stripe` SDK. Leaving STRIPE_API_HOST unset talks
+ * to the real service; the local fake is only a different host, port and protocol.
+ */
+export const paymentSettings = {
+	get secretKey() {
+		return env.STRIPE_SECRET_KEY || '';
+	},
+	get webhookSecret() {
+		return env.STRIPE_WEBHOOK_SECRET || '';
+	},
+	get apiHost() {
+		return env.STRIPE_API_HOST || undefined;
+	},
+	get apiPort() {
+		return env.STRIPE_API_PORT ? Number(env.STRIPE_API_PORT) : undefined;
+	},
+	get apiProtocol(): 'http' | 'https' | undefined {
+		return env.STRIPE_API_PROTOCOL === 'http' ? 'http' : env.STRIPE_API_PROTOCOL === 'https' ? 'https' : undefined;
+	},
+	/** Webhook events signed longer ago than this are refused (the SDK's default is 300 s). */
+	get webhookToleranceSeconds() {
+		return Number(env.STRIPE_WEBHOOK_TOLERANCE_SECONDS || 300);
+	},
+	/** How long a checkout stays open; the service accepts 30 minutes to 24 hours. */
+	get checkoutMinutes() {
+		return Math.min(24 * 60, Math.max(30, Number(env.CHECKOUT_EXPIRES_MINUTES || 60)));
+	}
 };
