@@ -125,21 +125,24 @@ export async function inviteCrew(actorId: string, companyId: string, rows: Check
 		return { ok: true as const, out };
 	});
 	if (!created.ok) return created;
-	for (const inv of created.out) {
-		const course = getCourse(inv.courseSlug)!;
-		await sendMail({
-			to: inv.email,
-			subject: `${company.name} has a seat for you on ${course.title}`,
-			paragraphs: [
-				`Hello ${inv.name},`,
-				`${company.name} has reserved a seat for you on the Patchwright course "${course.title}" (${course.code}). The seat opens every lesson, the course test and the practical sign-offs.`,
-				`Accept with the link below. It works once and expires in ${INVITATION_DAYS} days. If you have no Patchwright account yet, you create one on the way, and this link confirms your e-mail address.`
-			],
-			action: { label: 'Accept the seat', url: `${origin}/invitations/${inv.token}` },
-			footnote: 'If you did not expect this, ignore this message: nothing happens unless you accept.'
-		}).catch((e) => console.error(`invitation mail to ${inv.email} failed`, e));
-	}
+	// Ten at a time: a long roster should not wait for each message in turn.
+	for (let i = 0; i < created.out.length; i += 10) await Promise.all(created.out.slice(i, i + 10).map((inv) => sendInvitationMail(inv, company.name, origin)));
 	return { ok: true, sent: created.out.map((i) => ({ email: i.email, courseSlug: i.courseSlug })) };
+}
+
+async function sendInvitationMail(inv: { token: string; name: string; email: string; courseSlug: string }, companyName: string, origin: string) {
+	const course = getCourse(inv.courseSlug)!;
+	await sendMail({
+		to: inv.email,
+		subject: `${companyName} has a seat for you on ${course.title}`,
+		paragraphs: [
+			`Hello ${inv.name},`,
+			`${companyName} has reserved a seat for you on the Patchwright course "${course.title}" (${course.code}). The seat opens every lesson, the course test and the practical sign-offs.`,
+			`Accept with the link below. It works once and expires in ${INVITATION_DAYS} days. If you have no Patchwright account yet, you create one on the way, and this link confirms your e-mail address.`
+		],
+		action: { label: 'Accept the seat', url: `${origin}/invitations/${inv.token}` },
+		footnote: 'If you did not expect this, ignore this message: nothing happens unless you accept.'
+	}).catch((e) => console.error(`invitation mail to ${inv.email} failed`, e));
 }
 
 /** The invitation behind a link, with why it can no longer be used (or null when it can). */

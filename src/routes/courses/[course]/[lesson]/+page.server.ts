@@ -3,6 +3,7 @@ import { getCourse, getLesson } from '$lib/content';
 import { requireUser } from '$lib/server/authz';
 import { hasRole } from '$lib/roles';
 import { getCourseProgress, readingState } from '$lib/server/progress';
+import { markSeatInUse } from '$lib/server/seats';
 import type { PageServerLoad } from './$types';
 
 /**
@@ -25,6 +26,8 @@ export const load: PageServerLoad = async (event) => {
 	const outline = course.lessons.map(({ slug, title, order, minutes, preview, href }) => ({ slug, title, order, minutes, preview, href }));
 	const at = outline.findIndex((l) => l.slug === lesson.slug);
 	const enrolled = state === 'enrolled';
+	// A seat counts as used from the first lesson opened beyond the free previews.
+	if (enrolled && !lesson.preview) await markSeatInUse(locals.user!.id, course.slug);
 	return {
 		course: { slug: course.slug, title: course.title, code: course.code },
 		lesson: { slug: lesson.slug, title: lesson.title, order: lesson.order, minutes: lesson.minutes, preview: lesson.preview, objectives: lesson.objectives },
