@@ -2,16 +2,19 @@ import { requireUser } from '$lib/server/authz';
 import { countPeople } from '$lib/server/users';
 import { listMembers } from '$lib/server/companies';
 import { listEnrolledProgress } from '$lib/server/progress';
+import { listOrdersFor, orderView } from '$lib/server/orders';
+import { seatLedger } from '$lib/server/seats';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
 	const user = requireUser(event);
 	const adminOf = user.companies.filter((c) => c.role === 'admin');
 	const companies = await Promise.all(
-		adminOf.map(async (c) => ({ ...c, memberCount: (await listMembers(c.id)).length }))
+		adminOf.map(async (c) => ({ ...c, memberCount: (await listMembers(c.id)).length, seats: await seatLedger(c.id) }))
 	);
 	return {
 		training: await listEnrolledProgress(user.id),
+		orders: (await listOrdersFor(user)).slice(0, 3).map(orderView),
 		companies,
 		peopleCount: user.roles.includes('registrar') ? await countPeople() : null
 	};
