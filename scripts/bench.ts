@@ -1,6 +1,9 @@
 /**
- * `npm run bench`: how fast the trade calculations run.
- * Sections are independent functions; add one (for example problems generated and graded
+ * `npm run bench`: how fast the trade calculations run in process, then the built app over
+ * HTTP beside a bare node:http + SQLite server, and page weight in Chromium
+ * (scripts/bench-http.ts; needs `npm run build` first). `npm run bench -- calc` runs only the
+ * in-process part, `npm run bench -- http` only the HTTP part.
+ * In-process sections are independent functions; add one (for example problems generated and graded
  * per second) by writing another function that returns BenchResult rows and listing it in
  * `sections` below.
  */
@@ -8,6 +11,7 @@ import { answerCalculation } from '../src/lib/calc/api.ts';
 import { calculators, defaultInputs, runCalculation } from '../src/lib/calc/index.ts';
 import { checkAnswer, expectedAmount, generateProblem, listGenerators, type Problem } from '../src/lib/practice/index.ts';
 import { bench, printSection, type BenchResult } from './bench-lib.ts';
+import { runHttpBench } from './bench-http.ts';
 
 const PER_CALCULATOR = 20_000;
 
@@ -75,4 +79,6 @@ const sections: [string, () => BenchResult[]][] = [
 	['Practice problems generated and graded per second', problems]
 ];
 
-for (const [title, run] of sections) printSection(title, run());
+const only = process.argv[2];
+if (only !== 'http') for (const [title, run] of sections) printSection(title, run());
+if (only !== 'calc') await runHttpBench();

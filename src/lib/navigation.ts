@@ -9,7 +9,7 @@ export interface NavLink {
 export function navigationFor(user: Identity | null): NavLink[] {
 	const links: NavLink[] = [];
 	if (user) links.push({ href: '/dashboard', label: 'Dashboard' });
-	links.push({ href: '/courses', label: 'Courses' }, { href: '/tools', label: 'Calculators' });
+	links.push({ href: '/courses', label: 'Courses' }, { href: '/tools', label: 'Calculators' }, { href: '/verify', label: 'Verify a certificate' });
 	if (hasRole(user, 'trainer')) links.push({ href: '/trainer', label: 'Trainer desk' });
 	if (isCompanyAdmin(user)) links.push({ href: '/company', label: 'Company' });
 	if (hasRole(user, 'inspector')) links.push({ href: '/inspector', label: 'Inspector' });

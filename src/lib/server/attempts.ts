@@ -32,6 +32,7 @@ import {
 	type RunnerView
 } from '$lib/practice/test-items';
 import { recordAudit } from './audit';
+import { issueIfEarned } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import type { TestAttemptTable } from './db/schema';
 import { isEnrolled } from './enrolments';
@@ -152,6 +153,8 @@ async function close(db: DB, row: Row, closedBy: 'person' | 'time limit', at: Da
 			},
 			db
 		);
+		// passing can be the last requirement met: the certificate comes in the same transaction
+		if (passed === 1) await issueIfEarned(row.user_id, row.course_slug, { db, now: at, actorId });
 	}
 	return (await db.selectFrom('test_attempt').selectAll().where('id', '=', row.id).executeTakeFirstOrThrow()) as Row;
 }

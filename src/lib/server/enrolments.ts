@@ -1,4 +1,5 @@
 import { recordAudit } from './audit';
+import { issueIfEarned } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
 
 export async function isEnrolled(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
@@ -30,6 +31,8 @@ export async function enrol(actorId: string | null, userId: string, courseSlug: 
 			.executeTakeFirst();
 		if (Number(result.numInsertedOrUpdatedRows ?? 0) > 0) {
 			await recordAudit({ actorId, action: 'enrolment.create', subjectType: 'user', subjectId: userId, detail: { courseSlug, source } }, trx);
+			// a late enrolment can be the last requirement met
+			await issueIfEarned(userId, courseSlug, { db: trx, actorId });
 		}
 	});
 }

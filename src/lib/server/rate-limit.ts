@@ -5,6 +5,7 @@
  * limits reset when the server restarts, which errs on the side of letting people in.
  * Windows are kept per bucket ("sign-in-ip", "calc-api", ...) and key (an address or IP).
  */
+import { apiLimitOverrides } from './config';
 
 interface Window {
 	startedAt: number;
@@ -67,7 +68,7 @@ export interface ApiLimit {
  * Retry-After once the window is used up; null while the request may go ahead.
  */
 export function refuseIfLimited(event: { getClientAddress(): string }, { bucket, limit, windowMs }: ApiLimit): Response | null {
-	const verdict = hit(bucket, event.getClientAddress(), limit, windowMs);
+	const verdict = hit(bucket, event.getClientAddress(), apiLimitOverrides[bucket] ?? limit, windowMs);
 	if (verdict.ok) return null;
 	return Response.json(
 		{ error: `Too many requests from this address. Try again in ${verdict.retryAfterSeconds} s.` },

@@ -4,6 +4,9 @@ import { listMembers } from '$lib/server/companies';
 import { listEnrolledProgress } from '$lib/server/progress';
 import { listOrdersFor, orderView } from '$lib/server/orders';
 import { seatLedger } from '$lib/server/seats';
+import { listCertificatesOf } from '$lib/server/certificates';
+import { config } from '$lib/server/config';
+import { recentCrewChecks } from '$lib/server/crew-checks';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async (event) => {
@@ -16,6 +19,9 @@ export const load: PageServerLoad = async (event) => {
 		training: await listEnrolledProgress(user.id),
 		orders: (await listOrdersFor(user)).slice(0, 3).map(orderView),
 		companies,
-		peopleCount: user.roles.includes('registrar') ? await countPeople() : null
+		peopleCount: user.roles.includes('registrar') ? await countPeople() : null,
+		certificates: await listCertificatesOf(user.id),
+		origin: config.origin,
+		recentChecks: user.roles.includes('inspector') ? await recentCrewChecks(user.id, 3) : []
 	};
 };

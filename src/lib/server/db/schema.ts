@@ -119,6 +119,124 @@ export interface TestAttemptTable {
 	wait_waived_by: string | null;
 }
 
+export type SubmissionStatus = 'waiting' | 'withdrawn' | 'returned' | 'signed off';
+export type AssessmentOutcome = 'signed off' | 'returned';
+
+/**
+ * Evidence for one practical skill. JSON text: `readings` (array of recorded readings).
+ * `in_person` = 1 when a trainer recorded it at an assessment without prior evidence.
+ */
+export interface PracticalSubmissionTable {
+	id: string;
+	trainee_id: string;
+	course_slug: string;
+	skill_id: string;
+	submitted_by: string;
+	in_person: 0 | 1;
+	note: string;
+	readings: string;
+	status: SubmissionStatus;
+	submitted_at: string;
+	closed_at: string | null;
+}
+
+/** A stored upload of a submission; the bytes live in the file store under `storage_key`. */
+export interface EvidenceFileTable {
+	id: string;
+	submission_id: string;
+	position: number;
+	storage_key: string;
+	thumbnail_key: string | null;
+	original_name: string;
+	media_type: string;
+	size_bytes: number;
+	sha256: string;
+	width_px: number | null;
+	height_px: number | null;
+	uploaded_by: string;
+	created_at: string;
+}
+
+/** A trainer's grading of one submission. JSON text: `criteria` (per-criterion results). */
+export interface PracticalAssessmentTable {
+	id: string;
+	submission_id: string;
+	trainer_id: string;
+	outcome: AssessmentOutcome;
+	criteria: string;
+	reasons: string;
+	place: string;
+	/** The day the practical took place, YYYY-MM-DD. */
+	practical_date: string;
+	signature_name: string;
+	assessed_at: string;
+}
+
+/** A skill signed off for a person; never deleted, voided by a registrar with a reason. */
+export interface SignOffTable {
+	id: string;
+	user_id: string;
+	course_slug: string;
+	skill_id: string;
+	assessment_id: string;
+	trainer_id: string;
+	signed_off_at: string;
+	voided_at: string | null;
+	voided_by: string | null;
+	void_reason: string | null;
+}
+
+/** An issued certificate; what it shows is copied at issue and never follows later edits. */
+export interface CertificateTable {
+	id: string;
+	/** Canonical number, 16 Crockford base32 symbols grouped XXXX-XXXX-XXXX-XXXX. */
+	number: string;
+	/** `<user id>|<course slug>` on the certificate holding the person's place for the course; null once replaced. */
+	slot: string | null;
+	user_id: string;
+	course_slug: string;
+	holder_name: string;
+	course_code: string;
+	course_title: string;
+	scope: string;
+	diameter_min_mm: number;
+	diameter_max_mm: number;
+	/** YYYY-MM-DD (UTC) of the latest sign-off and of the passed test. */
+	practical_on: string;
+	test_on: string;
+	issued_at: string;
+	issued_on: string;
+	expires_on: string;
+	/** JSON: [{ id, name }] of the trainers who signed off. */
+	trainers: string;
+	issuer_name: string;
+	credential_jwt: string;
+	revoked_at: string | null;
+	revoked_by: string | null;
+	revocation_reason: string | null;
+	replaces_id: string | null;
+	replaced_by_id: string | null;
+}
+
+/** One issued PDF of a certificate; its SHA-256 identifies the genuine file on upload. */
+export interface CertificateFileTable {
+	certificate_id: string;
+	format: 'a4' | 'letter' | 'card';
+	sha256: string;
+	size_bytes: number;
+	storage_key: string;
+	created_at: string;
+}
+
+/** An inspector's crew check: the answers as they were at that moment (JSON rows). */
+export interface CrewCheckTable {
+	id: string;
+	inspector_id: string;
+	checked_at: string;
+	label: string;
+	results: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -132,10 +250,20 @@ export interface Database {
 	enrolment: EnrolmentTable;
 	lesson_progress: LessonProgressTable;
 	test_attempt: TestAttemptTable;
+<<<<<<< HEAD
 	course_order: CourseOrderTable;
 	seat: SeatTable;
 	invitation: InvitationTable;
 	payment_event: PaymentEventTable;
+=======
+	practical_submission: PracticalSubmissionTable;
+	evidence_file: EvidenceFileTable;
+	practical_assessment: PracticalAssessmentTable;
+	sign_off: SignOffTable;
+	certificate: CertificateTable;
+	certificate_file: CertificateFileTable;
+	crew_check: CrewCheckTable;
+>>>>>>> certs
 }
 
 export type User = Selectable<UserTable>;

@@ -1,0 +1,2 @@
+export { embedLora, loraBytes, type LoraWeight } from './fonts';
+export { wrapText, drawWrapped } from './text';
