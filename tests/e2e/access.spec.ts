@@ -5,7 +5,8 @@ import { baseURL, signInRequest, who, type Identity } from './support';
  * Who may open what. `ok` is 200; `in` is a redirect to sign-in; a number is that status.
  * Every page and API route that exists so far is listed; later features add rows.
  */
-type Expect = 'ok' | 'in' | 'dash' | 401 | 403 | 404;
+type Expect = 'ok' | 'in' | 'dash' | 401 | 403 | 404 | 405;
+const NO_ID = '00000000-0000-4000-8000-000000000000';
 const identities: Identity[] = ['anonymous', 'trainee', 'trainer', 'companyAdmin', 'inspector', 'registrar'];
 
 const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expect }][] = [
@@ -49,7 +50,23 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/api/v1/attempts/no-such-attempt/result', { anonymous: 401, other: 404 }],
 	['/trainer/attempts', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
 	['/trainer/attempts/items?course=point-repair-installer', { anonymous: 'in', trainer: 'ok', registrar: 'ok', other: 403 }],
-	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }]
+	['/trainer/attempts/no-such-attempt', { anonymous: 'in', trainer: 404, registrar: 404, other: 403 }],
+	['/courses/point-repair-installer/buy', { anonymous: 'in', other: 'ok' }],
+	['/courses/no-such-course/buy', { anonymous: 'in', other: 404 }],
+	['/orders', { anonymous: 'in', other: 'ok' }],
+	[`/orders/${NO_ID}`, { anonymous: 'in', other: 404 }],
+	['/orders/not-an-id', { anonymous: 'in', other: 404 }],
+	[`/orders/${NO_ID}/cancel`, { anonymous: 'in', other: 404 }],
+	[`/orders/${NO_ID}/receipt`, { anonymous: 'in', other: 404 }],
+	[`/orders/${NO_ID}/receipt.pdf`, { anonymous: 'in', other: 404 }],
+	['/company/seats', { anonymous: 'in', companyAdmin: 'ok', other: 403 }],
+	['/registrar/orders', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	[`/registrar/orders/${NO_ID}`, { anonymous: 'in', registrar: 404, other: 403 }],
+	['/invitations/no-such-invitation-token-000000', 404],
+	['/invitations/short', 404],
+	[`/api/v1/orders/${NO_ID}`, { anonymous: 401, other: 404 }],
+	[`/api/v1/companies/${NO_ID}/seats`, { anonymous: 401, other: 403 }],
+	['/api/v1/payments/webhook', 405]
 ];
 
 function expected(rule: (typeof table)[number][1], identity: Identity): Expect {

@@ -23,11 +23,10 @@ export const config = {
 	get fakeInboxUrl() {
 		return env.FAKES === '1' ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null;
 	},
-<<<<<<< HEAD
 	/** The fake payment service's page (sessions, payments, events); shown only when fakes are enabled. */
 	get fakePaymentsUrl() {
 		return env.FAKES === '1' ? env.FAKE_PAYMENTS_URL || null : null;
-=======
+	},
 	/** Public origin for links that leave the app (QR codes, credential ids); adapter-node reads the same variable. */
 	get origin() {
 		return (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, '');
@@ -35,7 +34,6 @@ export const config = {
 	/** The training provider that issues certificates. */
 	get issuerName() {
 		return env.ISSUER_NAME || 'Fenmoor Training Yard';
->>>>>>> certs
 	},
 	get seedDemo() {
 		return env.SEED_DEMO === '1';
@@ -53,7 +51,6 @@ export const signInLimits = {
 	windowMs: 15 * 60 * 1000
 };
 
-<<<<<<< HEAD
 /**
  * The payment service, reached through the `stripe` SDK. Leaving STRIPE_API_HOST unset talks
  * to the real service; the local fake is only a different host, port and protocol.
@@ -81,7 +78,9 @@ export const paymentSettings = {
 	/** How long a checkout stays open; the service accepts 30 minutes to 24 hours. */
 	get checkoutMinutes() {
 		return Math.min(24 * 60, Math.max(30, Number(env.CHECKOUT_EXPIRES_MINUTES || 60)));
-=======
+	}
+};
+
 const optionalCount = (value: string | undefined) => (value && /^\d+$/.test(value) ? Number(value) : undefined);
 
 /**
@@ -95,6 +94,5 @@ export const apiLimitOverrides: Record<string, number | undefined> = {
 	},
 	get 'practice-api'() {
 		return optionalCount(env.PRACTICE_API_LIMIT_PER_MINUTE);
->>>>>>> certs
 	}
 };

@@ -250,12 +250,10 @@ export interface Database {
 	enrolment: EnrolmentTable;
 	lesson_progress: LessonProgressTable;
 	test_attempt: TestAttemptTable;
-<<<<<<< HEAD
 	course_order: CourseOrderTable;
 	seat: SeatTable;
 	invitation: InvitationTable;
 	payment_event: PaymentEventTable;
-=======
 	practical_submission: PracticalSubmissionTable;
 	evidence_file: EvidenceFileTable;
 	practical_assessment: PracticalAssessmentTable;
@@ -263,7 +261,6 @@ export interface Database {
 	certificate: CertificateTable;
 	certificate_file: CertificateFileTable;
 	crew_check: CrewCheckTable;
->>>>>>> certs
 }
 
 export type User = Selectable<UserTable>;
