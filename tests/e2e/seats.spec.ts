@@ -1,4 +1,4 @@
-import { expect, request as newRequest, test, type APIRequestContext, type Page } from '@playwright/test';
+import { expect as baseExpect, request as newRequest, test, type APIRequestContext, type Page } from '@playwright/test';
 import { baseURL, DEMO_PASSWORD, firstLink, latestMail, signInRequest, who } from './support';
 
 /**
@@ -8,7 +8,9 @@ import { baseURL, DEMO_PASSWORD, firstLink, latestMail, signInRequest, who } fro
  * a person without a company buys one seat and starts the course.
  */
 test.use({ viewport: { width: 360, height: 780 } });
-test.describe.configure({ timeout: 120_000 });
+// Payment pages, webhooks and mail cross three processes; allow for a loaded machine.
+const expect = baseExpect.configure({ timeout: 15_000 });
+test.describe.configure({ timeout: 240_000 });
 
 const COURSE = 'transition-patches';
 
@@ -55,6 +57,7 @@ test('a company admin buys 5 seats, invites 3 by CSV, and a crew member accepts 
 
 	// The receipt page and its PDF.
 	await page.getByRole('link', { name: 'Receipt' }).click();
+	await page.waitForURL(/\/receipt$/);
 	await expect(page.getByRole('heading', { name: 'Receipt' })).toBeVisible();
 	const orderId = page.url().match(/orders\/([0-9a-f-]+)\/receipt/)![1];
 	const pdf = await admin.get(`/orders/${orderId}/receipt.pdf`);
