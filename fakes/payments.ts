@@ -191,7 +191,7 @@ input{font:inherit;width:100%;box-sizing:border-box;min-height:44px;padding:8px;
 button,.button{font:inherit;font-weight:700;min-height:44px;padding:8px 18px;border-radius:6px;border:0;background:#3b3561;color:#fff;cursor:pointer;display:inline-flex;align-items:center;text-decoration:none;margin-top:16px}
 .quiet{background:#fff;color:#3b3561;border:2px solid #3b3561}
 .error{background:#fde8e8;border:2px solid #a61b1b;color:#5e0d0d;padding:10px;border-radius:6px}
-code{background:#f3f2f8;padding:1px 4px}.wide{max-width:1100px}.scroll{overflow-x:auto}
+code{background:#f3f2f8;padding:1px 4px;white-space:nowrap}.wide{max-width:1100px}.scroll{overflow-x:auto}
 </style></head><body><div class="band" role="note">LOCAL TEST PAYMENT SERVICE: no real card is charged, nothing leaves this machine</div><main${title.startsWith('Payments') ? ' class="wide"' : ''}>${body}</main></body></html>`;
 
 export async function startPaymentsFake(options: PaymentsFakeOptions) {
