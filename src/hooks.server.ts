@@ -1,6 +1,7 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
+import { apiGuard, errorIds } from '$lib/server/api';
 import { authHandle } from '$lib/server/auth';
 import { config } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
@@ -31,11 +32,12 @@ const securityHeaders: Handle = async ({ event, resolve }) => {
 	return response;
 };
 
-export const handle = sequence(authHandle, identity, securityHeaders);
+export const handle = sequence(apiGuard, authHandle, identity, securityHeaders);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };
 	const id = crypto.randomUUID().slice(0, 8);
 	console.error(`[error ${id}] ${event.request.method} ${event.url.pathname}`, error);
+	errorIds.set(event.request, id);
 	return { message: status >= 500 ? 'Something went wrong on our side.' : message, id };
 };

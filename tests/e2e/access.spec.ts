@@ -1,4 +1,4 @@
-import { expect, request as newRequest, test } from '@playwright/test';
+import { expect, request as newRequest, test, type APIResponse } from '@playwright/test';
 import { baseURL, signInRequest, who, type Identity } from './support';
 
 /**
@@ -7,7 +7,7 @@ import { baseURL, signInRequest, who, type Identity } from './support';
  */
 type Expect = 'ok' | 'in' | 'dash' | 401 | 403 | 404 | 405;
 const NO_ID = '00000000-0000-4000-8000-000000000000';
-const identities: Identity[] = ['anonymous', 'trainee', 'trainer', 'companyAdmin', 'inspector', 'registrar'];
+const identities: Identity[] = ['anonymous', 'trainee', 'trainer', 'companyTrainer', 'companyAdmin', 'inspector', 'registrar'];
 
 const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expect }][] = [
 	['/', 'ok'],
@@ -18,7 +18,7 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/dashboard', { anonymous: 'in', other: 'ok' }],
 	['/trainer', { anonymous: 'in', trainer: 'ok', other: 403 }],
 	['/inspector', { anonymous: 'in', inspector: 'ok', other: 403 }],
-	['/company', { anonymous: 'in', companyAdmin: 'ok', other: 403 }],
+	['/company', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
 	['/registrar/people', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/registrar/audit', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/api/v1/health', 'ok'],
@@ -69,9 +69,20 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/api/v1/payments/webhook', 405]
 ];
 
+const codes: Record<number, string> = { 400: 'bad_request', 401: 'unauthorized', 403: 'forbidden', 404: 'not_found', 405: 'method_not_allowed', 409: 'conflict', 413: 'payload_too_large', 415: 'unsupported_media_type' };
+
+/** Every API refusal is JSON in the one shape: {error: {code, message}}, never HTML, never cached. */
+async function expectApiError(response: APIResponse, status: number, label: string) {
+	expect(response.headers()['content-type'], label).toMatch(/^application\/json/);
+	expect(response.headers()['cache-control'], label).toBe('no-store');
+	const body = await response.json();
+	expect(body.error, label).toMatchObject({ code: codes[status], message: expect.any(String) });
+}
+
 function expected(rule: (typeof table)[number][1], identity: Identity): Expect {
 	if (typeof rule !== 'object') return rule;
-	return rule[identity] ?? rule.other;
+	// A company's own trainer opens the trainer pages as any trainer does; what they show is scoped (tested below).
+	return rule[identity] ?? (identity === 'companyTrainer' ? rule.trainer : undefined) ?? rule.other;
 }
 
 for (const identity of identities) {
@@ -90,6 +101,7 @@ for (const identity of identities) {
 				expect(response.status(), label).toBe(303);
 				expect(response.headers().location, label).toBe('/dashboard');
 			} else expect(response.status(), label).toBe(want);
+			if (typeof want === 'number' && path.startsWith('/api/')) await expectApiError(response, want, label);
 			if (want === 403) {
 				// A refusal leaks nothing of the page behind it, such as other people's addresses.
 				const body = await response.text();
@@ -169,4 +181,62 @@ test('the registrar enrols a person in a course, recorded in the audit log', asy
 	await expect(person).toContainText('Enrolled: TP-200');
 	await page.goto('/registrar/audit');
 	await expect(page.getByRole('row').filter({ hasText: 'enrolment.create' }).first()).toContainText('transition-patches');
+});
+
+test("a company's own trainer works with that company's crew only; the provider's trainer with everyone", async () => {
+	const crew = async (email: string) => {
+		const person = await newRequest.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
+		await signInRequest(person, email);
+		const started = await person.post('/api/v1/courses/packer-pressure-safety/attempts', { data: {} });
+		expect(started.status(), email).toBe(201);
+		const id: string = (await started.json()).attempt.id;
+		expect((await person.post(`/api/v1/attempts/${id}/submit`, { data: {} })).status(), email).toBe(200);
+		await person.dispose();
+		return id;
+	};
+	const otherCompany = await crew('luca@brindlewick.test');
+	const ownCrew = await crew('finn@tarnside.test');
+
+	const companyTrainer = await newRequest.newContext({ baseURL });
+	await signInRequest(companyTrainer, who.companyTrainer);
+	const list = await companyTrainer.get('/trainer/attempts?course=packer-pressure-safety');
+	expect(list.status()).toBe(200);
+	const listed = await list.text();
+	expect(listed).toContain('finn@tarnside.test');
+	expect(listed).not.toContain('luca@brindlewick.test');
+	expect((await companyTrainer.get(`/trainer/attempts/${ownCrew}`)).status()).toBe(200);
+	const hidden = await companyTrainer.get(`/trainer/attempts/${otherCompany}`);
+	expect(hidden.status()).toBe(404);
+	expect(await hidden.text()).not.toContain('luca@brindlewick.test');
+	const retake = (attemptId: string) =>
+		companyTrainer.post('/trainer/attempts?/allowRetake', { form: { attemptId }, headers: { origin: baseURL, accept: 'application/json' } });
+	expect(await (await retake(otherCompany)).json()).toMatchObject({ type: 'failure', status: 404 });
+	expect(await (await retake(ownCrew)).json()).toMatchObject({ type: 'success' });
+	await companyTrainer.dispose();
+
+	const provider = await newRequest.newContext({ baseURL });
+	await signInRequest(provider, who.trainer);
+	expect((await provider.get(`/trainer/attempts/${otherCompany}`)).status()).toBe(200);
+	expect(await (await provider.get('/trainer/attempts?course=packer-pressure-safety')).text()).toContain('luca@brindlewick.test');
+	await provider.dispose();
+});
+
+test('the registrar limits a trainer to one company and back', async ({ page }) => {
+	const registrar = await newRequest.newContext({ baseURL });
+	await signInRequest(registrar, who.registrar);
+	await page.context().addCookies((await registrar.storageState()).cookies);
+	await registrar.dispose();
+	await page.setViewportSize({ width: 360, height: 800 });
+	await page.goto('/registrar/people?q=trainer%40fenmoor');
+	const person = page.getByRole('listitem').filter({ hasText: who.trainer });
+	await expect(person.getByTestId('trainer-scope')).toContainText('everyone');
+	await person.getByLabel(`Trainer ${who.trainer} works with`).selectOption({ label: 'Brindlewick Drainage crew only' });
+	await person.getByRole('button', { name: `Set whose crew ${who.trainer} trains` }).click();
+	await expect(page.getByRole('status')).toContainText('that company’s crew only');
+	await expect(person.getByTestId('trainer-scope')).toContainText('Brindlewick Drainage crew only');
+	await person.getByLabel(`Trainer ${who.trainer} works with`).selectOption({ label: 'Everyone (training provider’s trainer)' });
+	await person.getByRole('button', { name: `Set whose crew ${who.trainer} trains` }).click();
+	await expect(person.getByTestId('trainer-scope')).toContainText('everyone');
+	await page.goto('/registrar/audit');
+	await expect(page.getByRole('row').filter({ hasText: 'role.trainer-scope' }).first()).toBeVisible();
 });

@@ -125,16 +125,26 @@ test('a signed-in person without a seat gets a 403 page that says how to get one
 });
 
 test('the progress API refuses what it should', async () => {
-	const anonymous = await newRequest.newContext({ baseURL });
+	// State-changing API calls carry this site's Origin, as the pages' own fetches do.
+	const anonymous = await newRequest.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
 	const lesson = '/api/v1/progress/point-repair-installer/wet-out';
 	expect((await anonymous.put(lesson, { data: { done: true } })).status()).toBe(401);
 
-	const trainee = await newRequest.newContext({ baseURL });
+	const trainee = await newRequest.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
 	await signInRequest(trainee, who.trainee);
 	const bad = await trainee.put(lesson, { data: { done: 'yes' } });
 	expect(bad.status()).toBe(400);
-	expect((await bad.json()).errors).toHaveProperty('done');
+	expect((await bad.json()).error).toMatchObject({ code: 'bad_request', fields: { done: expect.any(String) } });
 	expect((await trainee.put(lesson, { headers: { 'content-type': 'application/json' }, data: 'not json' })).status()).toBe(400);
+	const wrongType = await trainee.put(lesson, { headers: { 'content-type': 'text/plain' }, data: '{"done": true}' });
+	expect(wrongType.status()).toBe(415);
+	expect((await wrongType.json()).error.code).toBe('unsupported_media_type');
+	const huge = await trainee.put(lesson, { headers: { 'content-type': 'application/json' }, data: `{"done": true, "pad": "${'x'.repeat(10 * 1024 * 1024)}"}` });
+	expect(huge.status()).toBe(413);
+	expect((await huge.json()).error.code).toBe('payload_too_large');
+	const crossSite = await trainee.put(lesson, { headers: { origin: 'http://evil.example' }, data: { done: true } });
+	expect(crossSite.status()).toBe(403);
+	expect((await crossSite.json()).error.code).toBe('forbidden');
 	expect((await trainee.put('/api/v1/progress/transition-patches/sizing-the-taper', { data: { done: true } })).status()).toBe(403);
 	expect((await trainee.put('/api/v1/progress/point-repair-installer/no-such-lesson', { data: { done: true } })).status()).toBe(404);
 

@@ -118,7 +118,7 @@ test('the trainee fails the course test, waits, and passes', async ({ page }) =>
 	await expect(page.getByRole('button', { name: 'Question 1, answered' })).toBeVisible();
 
 	// Another person cannot see or change this attempt, and nobody sees a result before submission.
-	const other = await newRequest.newContext({ baseURL });
+	const other = await newRequest.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
 	await signInRequest(other, 'priya@brindlewick.test');
 	expect((await other.get(`/api/v1/attempts/${first}`)).status()).toBe(404);
 	expect((await other.put(`/api/v1/attempts/${first}/answers/0`, { data: rightAnswer(draw[0]) })).status()).toBe(404);
@@ -137,14 +137,14 @@ test('the trainee fails the course test, waits, and passes', async ({ page }) =>
 	await expect(page.getByTestId('review-item').first()).toContainText('Right answer');
 
 	// A second submit changes nothing; a late answer is refused.
-	expect((await page.request.post(`/api/v1/attempts/${first}/submit`, { data: {} })).status()).toBe(409);
-	expect((await page.request.put(`/api/v1/attempts/${first}/answers/1`, { data: rightAnswer(draw[1]) })).status()).toBe(409);
+	expect((await page.request.post(`/api/v1/attempts/${first}/submit`, { data: {}, headers: { origin: baseURL } })).status()).toBe(409);
+	expect((await page.request.put(`/api/v1/attempts/${first}/answers/1`, { data: rightAnswer(draw[1]), headers: { origin: baseURL } })).status()).toBe(409);
 
 	// Starting again now is refused: the trainee waits.
 	await page.goto(`/courses/${COURSE}/test`);
 	await expect(page.getByTestId('waiting')).toContainText('Your next attempt can start from');
 	await expect(page.getByRole('button', { name: /Start attempt/ })).toHaveCount(0);
-	expect((await page.request.post(`/api/v1/courses/${COURSE}/attempts`, { data: {} })).status()).toBe(409);
+	expect((await page.request.post(`/api/v1/courses/${COURSE}/attempts`, { data: {}, headers: { origin: baseURL } })).status()).toBe(409);
 
 	// A trainer lifts the wait; the registrar's audit log shows it.
 	const staff = await page.context().browser()!.newContext({ baseURL });

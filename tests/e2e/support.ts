@@ -9,6 +9,8 @@ export const who = {
 	trainee: 'sam@brindlewick.test',
 	trainer: 'trainer@fenmoor.test',
 	companyAdmin: 'admin@brindlewick.test',
+	/** Company admin and the company's own trainer: works with Tarnside's crew only. */
+	companyTrainer: 'admin@tarnside.test',
 	inspector: 'inspector@waterboard.test',
 	registrar: 'registrar@fenmoor.test'
 } as const;

@@ -20,6 +20,7 @@ import {
 	type RunnerView
 } from '$lib/server/attempts';
 import { enrol } from '$lib/server/enrolments';
+import { grantRole } from '$lib/server/roles';
 import { createUser } from '$lib/server/users';
 import type { DrawnItem } from '$lib/practice/test-items';
 import { rightAnswer, wrongAnswer } from '../helpers/answer-key';
@@ -157,7 +158,9 @@ describe('course test attempts', () => {
 			expect(item.expected.length).toBeGreaterThan(0);
 			expect(item.explanation ?? item.steps).toBeTruthy();
 		}
-		const staff = await reviewAttemptForStaff(attempt.id, { db });
+		const trainer = (await createUser({ email: 'trainer@example.test', name: 'Tess' }, db)).id;
+		await grantRole(null, trainer, 'trainer', db);
+		const staff = await reviewAttemptForStaff(trainer, attempt.id, { db });
 		expect(staff?.person.email).toBe('sam@example.test');
 	});
 
@@ -192,7 +195,8 @@ describe('course test attempts', () => {
 		const first = await start();
 		await submitAttempt(sam, first.id, { db, now: T0 });
 		const trainer = (await createUser({ email: 'trainer@example.test', name: 'Tess' }, db)).id;
-		const rows = await listAttemptsForStaff({ db, now: later(HOUR), courseSlug: COURSE });
+		await grantRole(null, trainer, 'trainer', db);
+		const rows = await listAttemptsForStaff(trainer, { db, now: later(HOUR), courseSlug: COURSE });
 		expect(rows[0]).toMatchObject({ id: first.id, canWaiveWait: true, person: { email: 'sam@example.test' } });
 		expect(await waiveWait(trainer, first.id, { db, now: later(HOUR) })).toEqual({ ok: true });
 		expect(await waiveWait(trainer, first.id, { db, now: later(HOUR) })).toMatchObject({ ok: false, status: 409 });

@@ -59,14 +59,14 @@ describe('POST /api/v1/calculations/[id]', () => {
 	it('answers 404 for an unknown calculator', async () => {
 		const response = await POST(event('resin', JSON.stringify({ inputs: resin })));
 		expect(response.status).toBe(404);
-		expect((await response.json()).error).toMatch(/Unknown calculator "resin"/);
+		expect((await response.json()).error.message).toMatch(/Unknown calculator "resin"/);
 	});
 
 	it('answers 400 with a message for a body that is not JSON', async () => {
 		for (const bad of ['', '{inputs:', 'diameterMm=150']) {
 			const response = await POST(event('resin-quantity', bad));
 			expect(response.status, bad).toBe(400);
-			expect((await response.json()).error).toMatch(/must be JSON/);
+			expect((await response.json()).error.message).toMatch(/must be JSON/);
 		}
 	});
 
@@ -78,21 +78,21 @@ describe('POST /api/v1/calculations/[id]', () => {
 	])('answers 400 when the body is %s', async (_, body) => {
 		const response = await POST(event('resin-quantity', body));
 		expect(response.status).toBe(400);
-		expect((await response.json()).errors).toEqual({ inputs: 'Required' });
+		expect((await response.json()).error.fields).toEqual({ inputs: 'Required' });
 	});
 
 	it('answers 400 when inputs is not an object', async () => {
 		const answer = answerCalculation('resin-quantity', '{"inputs": [150, 600]}');
 		expect(answer).toEqual({
 			status: 400,
-			body: { error: expect.any(String), errors: { inputs: 'Must be an object of named numbers' } }
+			body: { error: { code: 'bad_request', message: expect.any(String), fields: { inputs: 'Must be an object of named numbers' } } }
 		});
 	});
 
 	it('answers 400 naming every missing input', async () => {
 		const answer = answerCalculation('resin-quantity', '{"inputs": {"diameterMm": 150}}');
 		expect(answer.status).toBe(400);
-		expect(answer.body.errors).toEqual({
+		expect((answer.body.error as { fields: unknown }).fields).toEqual({
 			lengthMm: 'Required',
 			plies: 'Required',
 			matWeightGm2: 'Required',
@@ -102,25 +102,25 @@ describe('POST /api/v1/calculations/[id]', () => {
 
 	it('answers 400 for non-numeric inputs', async () => {
 		const answer = answerCalculation('groundwater-head', '{"inputs": {"headM": "three"}}');
-		expect(answer).toMatchObject({ status: 400, body: { errors: { headM: 'Must be a number' } } });
+		expect(answer).toMatchObject({ status: 400, body: { error: { fields: { headM: 'Must be a number' } } } });
 	});
 
 	it('answers 400 with the allowed range for out-of-range inputs', async () => {
 		const answer = answerCalculation('end-thrust', '{"inputs": {"diameterMm": 100, "pressureBar": 50}}');
-		expect(answer).toMatchObject({ status: 400, body: { errors: { pressureBar: 'Must be between 0.01 and 10 bar' } } });
+		expect(answer).toMatchObject({ status: 400, body: { error: { fields: { pressureBar: 'Must be between 0.01 and 10 bar' } } } });
 	});
 
 	it('answers 400 for a fractional count, a value off the list, an unknown name and an inconsistent pair', () => {
-		expect(answerCalculation('mat-size', '{"inputs": {"diameterMm": 150, "plies": 2.5, "overlapMm": 50, "patchLengthMm": 600}}').body.errors).toEqual({
+		expect((answerCalculation('mat-size', '{"inputs": {"diameterMm": 150, "plies": 2.5, "overlapMm": 50, "patchLengthMm": 600}}').body.error as { fields: unknown }).fields).toEqual({
 			plies: 'Must be a whole number'
 		});
-		expect(answerCalculation('air-test', '{"inputs": {"diameterIn": 4, "lengthFt": 100, "dropPsig": 2}}').body.errors).toMatchObject({
+		expect((answerCalculation('air-test', '{"inputs": {"diameterIn": 4, "lengthFt": 100, "dropPsig": 2}}').body.error as { fields: unknown }).fields).toMatchObject({
 			dropPsig: expect.stringMatching(/^(Must be one of 0.5, 1|Must be between)/)
 		});
-		expect(answerCalculation('groundwater-head', '{"inputs": {"headM": 3, "depthM": 2}}').body.errors).toMatchObject({
+		expect((answerCalculation('groundwater-head', '{"inputs": {"headM": 3, "depthM": 2}}').body.error as { fields: unknown }).fields).toMatchObject({
 			depthM: expect.stringContaining('Unknown input')
 		});
-		expect(answerCalculation('transition-area', '{"inputs": {"smallDiameterMm": 150, "largeDiameterMm": 100, "taperLengthMm": 100}}').body.errors).toEqual({
+		expect((answerCalculation('transition-area', '{"inputs": {"smallDiameterMm": 150, "largeDiameterMm": 100, "taperLengthMm": 100}}').body.error as { fields: unknown }).fields).toEqual({
 			largeDiameterMm: 'Must be larger than the smaller pipe diameter'
 		});
 	});

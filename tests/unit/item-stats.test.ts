@@ -2,6 +2,7 @@ import { corr } from 'mathjs';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { saveAnswer, startAttempt, submitAttempt } from '$lib/server/attempts';
 import { enrol } from '$lib/server/enrolments';
+import { grantRole } from '$lib/server/roles';
 import { computeItemStats, itemStatistics, MIN_ATTEMPTS, type ScoredAttempt } from '$lib/server/item-stats';
 import { createUser } from '$lib/server/users';
 import type { DrawnItem } from '$lib/practice/test-items';
@@ -77,7 +78,9 @@ describe('item statistics from submitted attempts', () => {
 			for (let i = 0; i < items.length; i++) await saveAnswer(user, started.attempt.id, i, i < 4 * n ? rightAnswer(items[i]) : wrongAnswer(items[i]), { db, now });
 			await submitAttempt(user, started.attempt.id, { db, now });
 		}
-		const stats = await itemStatistics('transition-patches', db);
+		const registrar = (await createUser({ email: 'registrar@example.test', name: 'R' }, db)).id;
+		await grantRole(null, registrar, 'registrar', db);
+		const stats = await itemStatistics(registrar, 'transition-patches', db);
 		expect(stats?.attemptCount).toBe(6);
 		expect(stats!.items).toHaveLength(22);
 		for (const item of stats!.items) {
@@ -86,6 +89,6 @@ describe('item statistics from submitted attempts', () => {
 			if (item.correctPercent > 0 && item.correctPercent < 100) expect(item.upperLower!).toBeGreaterThan(0);
 		}
 		expect(stats!.items.some((i) => i.source === 'computed')).toBe(true);
-		expect(await itemStatistics('no-such-course', db)).toBeNull();
+		expect(await itemStatistics(registrar, 'no-such-course', db)).toBeNull();
 	});
 });

@@ -13,7 +13,7 @@ function event(path: string, params: Record<string, string>, init?: RequestInit,
 }
 
 const post = (generator: string, body: unknown) =>
-	check(event(`/api/v1/practice/${generator}/check`, { generator }, { method: 'POST', body: typeof body === 'string' ? body : JSON.stringify(body) }) as never);
+	check(event(`/api/v1/practice/${generator}/check`, { generator }, { method: 'POST', headers: { 'content-type': 'application/json' }, body: typeof body === 'string' ? body : JSON.stringify(body) }) as never);
 
 beforeEach(() => resetAll());
 
@@ -43,9 +43,9 @@ describe('GET /api/v1/practice/{generator}?seed=N', () => {
 
 	it('picks a seed when none is given, and refuses a bad one with a field message', () => {
 		expect(answerProblem('cure-time', null)).toMatchObject({ status: 200, body: { generator: 'cure-time', seed: expect.any(Number) } });
-		expect(answerProblem('cure-time', 'abc')).toMatchObject({ status: 400, body: { errors: { seed: expect.any(String) } } });
+		expect(answerProblem('cure-time', 'abc')).toMatchObject({ status: 400, body: { error: { fields: { seed: expect.any(String) } } } });
 		expect(answerProblem('cure-time', '-1')).toMatchObject({ status: 400 });
-		expect(answerProblem('cure-time', '4294967296')).toMatchObject({ status: 400, body: { errors: { seed: expect.stringMatching(/between/) } } });
+		expect(answerProblem('cure-time', '4294967296')).toMatchObject({ status: 400, body: { error: { fields: { seed: expect.stringMatching(/between/) } } } });
 		expect(answerProblem('cure-time', '1.5')).toMatchObject({ status: 400 });
 	});
 
@@ -74,7 +74,7 @@ describe('POST /api/v1/practice/{generator}/check', () => {
 		while (generateProblem('pressure-window', seed).kind !== 'choice') seed++;
 		const right = expectedChoice(generateProblem('pressure-window', seed)).value;
 		expect(answerCheck('pressure-window', JSON.stringify({ seed, answer: { choice: right } }))).toMatchObject({ status: 200, body: { correct: true } });
-		expect(answerCheck('pressure-window', JSON.stringify({ seed, answer: { value: 2, unit: 'bar' } }))).toMatchObject({ status: 400, body: { errors: { 'answer.choice': 'Required' } } });
+		expect(answerCheck('pressure-window', JSON.stringify({ seed, answer: { value: 2, unit: 'bar' } }))).toMatchObject({ status: 400, body: { error: { fields: { 'answer.choice': 'Required' } } } });
 	});
 
 	it('answers 400 with field messages for bad bodies, and 404 for an unknown generator', async () => {
@@ -90,7 +90,7 @@ describe('POST /api/v1/practice/{generator}/check', () => {
 		for (const [body, field] of cases) {
 			const response = await post('resin-quantity', body);
 			expect(response.status, JSON.stringify(body)).toBe(400);
-			expect(Object.keys((await response.json()).errors), JSON.stringify(body)).toContain(field);
+			expect(Object.keys((await response.json()).error.fields), JSON.stringify(body)).toContain(field);
 		}
 		expect((await post('no-such', { seed: 1, answer: { value: 1, unit: 'kg' } })).status).toBe(404);
 	});

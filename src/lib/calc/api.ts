@@ -4,9 +4,11 @@
  *
  * POST /api/v1/calculations/{id} with {"inputs": {...}}:
  *   200 {result, steps, sources, warnings}
- *   400 {error, errors} for a body that is not JSON or inputs that do not validate
- *   404 {error} for an unknown calculator
+ *   400 {error: {code, message, fields}} for a body that is not JSON or inputs that do not validate
+ *   404 {error: {code, message}} for an unknown calculator
+ * (the route adds 413 and 415 when it reads the body).
  */
+import { errorBody } from '$lib/api-error';
 import { getCalculator, listCalculators, runCalculation } from './index';
 
 /** Requests per IP address per window, shared by the listing and the calculations. */
@@ -20,7 +22,7 @@ export function answerListing(): ApiAnswer {
 
 export function answerCalculation(id: string, bodyText: string): ApiAnswer {
 	if (!getCalculator(id)) {
-		return { status: 404, body: { error: `Unknown calculator "${id}". GET /api/v1/calculations lists them.` } };
+		return { status: 404, body: { ...errorBody('not_found', `Unknown calculator "${id}". GET /api/v1/calculations lists them.`) } };
 	}
 	let body: unknown;
 	try {
@@ -28,18 +30,18 @@ export function answerCalculation(id: string, bodyText: string): ApiAnswer {
 	} catch {
 		return {
 			status: 400,
-			body: { error: 'The request body must be JSON of the form {"inputs": {"name": number, ...}}.' }
+			body: { ...errorBody('bad_request', 'The request body must be JSON of the form {"inputs": {"name": number, ...}}.', { body: 'Not JSON' }) }
 		};
 	}
 	if (typeof body !== 'object' || body === null || Array.isArray(body) || !('inputs' in body)) {
 		return {
 			status: 400,
-			body: { error: 'The request body must be an object with "inputs".', errors: { inputs: 'Required' } }
+			body: { ...errorBody('bad_request', 'The request body must be an object with "inputs".', { inputs: 'Required' }) }
 		};
 	}
 	const out = runCalculation(id, body.inputs);
 	if (!out.ok) {
-		return { status: out.status, body: { error: 'Some inputs are missing or out of range.', errors: out.errors } };
+		return { status: out.status, body: { ...errorBody('bad_request', 'Some inputs are missing or out of range.', out.errors) } };
 	}
 	const { result, steps, sources, warnings } = out;
 	return { status: 200, body: { result, steps, sources, warnings } };

@@ -277,13 +277,17 @@ const ALIASES: Record<string, string> = {
 	'kn/m^3': 'kN/m3'
 };
 
-/** The code a unit is known by, or undefined when it is not known. */
+/**
+ * The code a unit is known by, or undefined when it is not known. The text is a person's, so
+ * only the tables' own keys count ("constructor" and "__proto__" are unknown units).
+ */
 export function resolveUnit(unit: string): string | undefined {
+	if (typeof unit !== 'string') return undefined;
 	const trimmed = unit.trim().replace(/\s+/g, ' ');
-	if (trimmed in UNITS) return trimmed;
-	if (trimmed in ALIASES) return ALIASES[trimmed];
+	if (Object.hasOwn(UNITS, trimmed)) return trimmed;
+	if (Object.hasOwn(ALIASES, trimmed)) return ALIASES[trimmed];
 	const lower = trimmed.toLowerCase();
-	return ALIASES[lower];
+	return Object.hasOwn(ALIASES, lower) ? ALIASES[lower] : undefined;
 }
 
 function definition(unit: string): UnitDef {
@@ -374,5 +378,5 @@ export function displayUnit(unit: string, system: UnitSystem): string {
 	if (code === undefined) return unit;
 	const own = UNITS[code].system;
 	if (own === undefined || own === system) return code;
-	return COUNTERPARTS[code] ?? code;
+	return Object.hasOwn(COUNTERPARTS, code) ? COUNTERPARTS[code] : code;
 }

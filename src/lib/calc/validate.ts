@@ -73,7 +73,8 @@ export type ParsedInputs =
 export function parseInputs(def: CalculatorDef, raw: unknown): ParsedInputs {
 	const parsed = schemaFor(def).safeParse(raw);
 	if (!parsed.success) {
-		const errors: Record<string, string> = {};
+		// Keys come from the request: collect them without a prototype ("__proto__" is a key here).
+		const errors: Record<string, string> = Object.create(null);
 		const names = def.inputs.map((s) => s.name).join(', ');
 		for (const issue of parsed.error.issues) {
 			if (issue.code === 'unrecognized_keys') {
@@ -83,7 +84,7 @@ export function parseInputs(def: CalculatorDef, raw: unknown): ParsedInputs {
 			const key = issue.path.length > 0 ? String(issue.path[0]) : 'inputs';
 			errors[key] ??= issue.message;
 		}
-		return { ok: false, errors };
+		return { ok: false, errors: { ...errors } };
 	}
 	const errors = Object.fromEntries(
 		Object.entries(def.check?.(parsed.data) ?? {}).filter(

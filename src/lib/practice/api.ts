@@ -6,9 +6,11 @@
  * GET  /api/v1/practice/{generator}?seed=N     200 the problem, without its answer (a random seed when none is given)
  * POST /api/v1/practice/{generator}/check      {"seed": N, "answer": {"value": x, "unit": "kg"}} or {"seed": N, "answer": {"choice": "inside"}}
  *                                              200 {correct, outcome, message, expected, steps, hint?}
- * 400 {error, errors} with a message per field for bad input; 404 {error} for an unknown generator.
+ * 400 {error: {code, message, fields}} with a message per field for bad input; 404 {error: {code, message}}
+ * for an unknown generator (the route adds 413 and 415 when it reads the body).
  */
 import { z } from 'zod';
+import { errorBody, zodFields } from '$lib/api-error';
 import { unitChoices } from './grading';
 import { checkAnswer, generateProblem, getGenerator, listGenerators, MAX_SEED, publicProblem, randomSeed } from './index';
 
@@ -37,20 +39,8 @@ const checkSchema = z.strictObject(
 	{ error: (issue) => (issue.code === 'invalid_type' ? 'Must be an object with "seed" and "answer"' : undefined) }
 );
 
-function fieldErrors(error: z.ZodError): Record<string, string> {
-	const errors: Record<string, string> = {};
-	for (const issue of error.issues) {
-		if (issue.code === 'unrecognized_keys') {
-			for (const key of issue.keys) errors[[...issue.path, key].join('.')] ??= 'Unknown field';
-			continue;
-		}
-		errors[issue.path.join('.') || 'body'] ??= issue.message;
-	}
-	return errors;
-}
-
 function unknown(id: string): ApiAnswer {
-	return { status: 404, body: { error: `Unknown generator "${id}". GET /api/v1/practice lists them.` } };
+	return { status: 404, body: { ...errorBody('not_found', `Unknown generator "${id}". GET /api/v1/practice lists them.`) } };
 }
 
 export function answerListing(): ApiAnswer {
@@ -64,7 +54,7 @@ export function answerProblem(id: string, seedText: string | null): ApiAnswer {
 	if (seedText === null || seedText.trim() === '') seed = randomSeed();
 	else {
 		const parsed = seedSchema.safeParse(/^\d+$/.test(seedText.trim()) ? Number(seedText) : seedText);
-		if (!parsed.success) return { status: 400, body: { error: 'The seed is not valid.', errors: { seed: parsed.error.issues[0].message } } };
+		if (!parsed.success) return { status: 400, body: { ...errorBody('bad_request', 'The seed is not valid.', { seed: parsed.error.issues[0].message }) } };
 		seed = parsed.data;
 	}
 	const problem = publicProblem(generateProblem(id, seed));
@@ -77,17 +67,17 @@ export function answerCheck(id: string, bodyText: string): ApiAnswer {
 	try {
 		body = JSON.parse(bodyText);
 	} catch {
-		return { status: 400, body: { error: 'The request body must be JSON: {"seed": N, "answer": {"value": x, "unit": "kg"}}.', errors: { body: 'Not JSON' } } };
+		return { status: 400, body: { ...errorBody('bad_request', 'The request body must be JSON: {"seed": N, "answer": {"value": x, "unit": "kg"}}.', { body: 'Not JSON' }) } };
 	}
 	const parsed = checkSchema.safeParse(body);
-	if (!parsed.success) return { status: 400, body: { error: 'Some fields are missing or not valid.', errors: fieldErrors(parsed.error) } };
+	if (!parsed.success) return { status: 400, body: { ...errorBody('bad_request', 'Some fields are missing or not valid.', zodFields(parsed.error)) } };
 	const problem = generateProblem(id, parsed.data.seed);
 	const answer = parsed.data.answer;
 	if (problem.kind === 'choice' && !('choice' in answer)) {
-		return { status: 400, body: { error: 'This problem is answered with a choice.', errors: { 'answer.choice': 'Required' } } };
+		return { status: 400, body: { ...errorBody('bad_request', 'This problem is answered with a choice.', { 'answer.choice': 'Required' }) } };
 	}
 	if (problem.kind === 'numeric' && !('value' in answer)) {
-		return { status: 400, body: { error: 'This problem is answered with a number and a unit.', errors: { 'answer.value': 'Required' } } };
+		return { status: 400, body: { ...errorBody('bad_request', 'This problem is answered with a number and a unit.', { 'answer.value': 'Required' }) } };
 	}
 	const { correct, outcome, message, expected, steps, hint } = checkAnswer(problem, answer);
 	return { status: 200, body: { correct, outcome, message, expected, steps, ...(hint ? { hint } : {}) } };

@@ -32,7 +32,8 @@ const LESSONS: Record<string, Record<string, string>> = {
 
 /** The lesson slug within `courseSlug` for a generator, or null when the course has none. */
 export function lessonForGenerator(courseSlug: string, generatorId: string): string | null {
-	return LESSONS[courseSlug]?.[generatorId] ?? null;
+	const course = Object.hasOwn(LESSONS, courseSlug) ? LESSONS[courseSlug] : undefined;
+	return course && Object.hasOwn(course, generatorId) ? course[generatorId] : null;
 }
 
 /** Every (course, generator, lesson) entry, for tests. */

@@ -3,6 +3,7 @@
  * answer being typed, the feedback, a streak and accuracy per topic. The record is kept in the
  * browser's localStorage only: practice never counts toward a certificate.
  */
+import { errorMessage } from '$lib/api-error';
 import type { Amount } from './grading';
 import type { PublicProblem } from './index';
 import type { Choice } from './types';
@@ -118,7 +119,7 @@ export class PracticeSession {
 		try {
 			const generator = this.pickGenerator();
 			const response = await this.fetcher(`/api/v1/practice/${encodeURIComponent(generator)}?seed=${randomSeed()}`);
-			if (!response.ok) throw new Error((await response.json().catch(() => ({}))).error ?? `The server answered ${response.status}.`);
+			if (!response.ok) throw new Error(errorMessage(await response.json().catch(() => null), `The server answered ${response.status}.`));
 			this.problem = await response.json();
 			this.value = '';
 			this.unit = this.problem?.unit ?? '';
@@ -144,8 +145,8 @@ export class PracticeSession {
 				headers: { 'content-type': 'application/json' },
 				body: JSON.stringify({ seed: p.seed, answer })
 			});
-			const body = await response.json();
-			if (!response.ok) throw new Error(body.error ?? `The server answered ${response.status}.`);
+			const body = await response.json().catch(() => null);
+			if (!response.ok) throw new Error(errorMessage(body, `The server answered ${response.status}.`));
 			this.feedback = body;
 			// A typing slip (empty, not a number, no unit) is not counted as an attempt.
 			if (body.outcome === 'correct' || body.outcome === 'wrong') this.count(p.topic, body.correct);

@@ -198,8 +198,26 @@ function original(item: DrawnItem & { source: 'bank' }, shownIndex: number): num
 	return item.shown ? item.shown[shownIndex] : shownIndex;
 }
 
-/** Grades one item on the server. Unanswered items are wrong. */
+/**
+ * Grades one item on the server. Unanswered items are wrong. Never throws: a stored answer
+ * that cannot be graded (one saved before a rule tightened) counts as answered and wrong, so
+ * that one odd answer cannot block the attempt from closing.
+ */
 export function gradeItem(item: DrawnItem, answer: ItemAnswer | undefined): ItemGrade {
+	try {
+		return gradeOrThrow(item, answer);
+	} catch {
+		let answered = true;
+		try {
+			answered = isAnswered(answer);
+		} catch {
+			// An answer too odd to read still counts as given.
+		}
+		return { correct: false, answered };
+	}
+}
+
+function gradeOrThrow(item: DrawnItem, answer: ItemAnswer | undefined): ItemGrade {
 	const answered = isAnswered(answer);
 	if (!answered || !answer) return { correct: false, answered: false };
 	if (item.source === 'computed') {

@@ -4,6 +4,7 @@
  * per attempt in localStorage so a reload resumes there, and the timer follows the server's
  * clock. When time runs out the attempt is submitted; the server grades it either way.
  */
+import { errorMessage } from '$lib/api-error';
 import { isAnswered, type ItemAnswer, type RunnerItem, type RunnerView } from './test-items';
 
 export type RunnerData = Omit<RunnerView, 'status'>;
@@ -128,10 +129,10 @@ export class TestRunner {
 			}
 			const body = await response.json().catch(() => ({}));
 			if (response.status === 409) {
-				this.close(body.error ?? 'This attempt is closed.');
+				this.close(errorMessage(body, 'This attempt is closed.'));
 				return;
 			}
-			this.saves[position] = { state: 'error', message: body.error ?? `Not saved (${response.status}).` };
+			this.saves[position] = { state: 'error', message: errorMessage(body, `Not saved (${response.status}).`) };
 		} catch {
 			this.saves[position] = { state: 'error', message: 'Not saved yet: no connection. Retrying…' };
 			this.timers.set(
@@ -171,8 +172,8 @@ export class TestRunner {
 			await this.flush();
 			const response = await this.fetcher(`/api/v1/attempts/${this.id}/submit`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' });
 			const body = await response.json().catch(() => ({}));
-			if (response.ok || response.status === 409) this.close(response.ok ? 'Submitted.' : (body.error ?? 'This attempt is closed.'));
-			else this.notice = body.error ?? `The test could not be submitted (${response.status}). Try again.`;
+			if (response.ok || response.status === 409) this.close(response.ok ? 'Submitted.' : errorMessage(body, 'This attempt is closed.'));
+			else this.notice = errorMessage(body, `The test could not be submitted (${response.status}). Try again.`);
 		} catch {
 			this.notice = 'No connection: the test is not submitted yet. Your saved answers are safe; try again.';
 		} finally {

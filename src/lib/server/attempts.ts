@@ -38,6 +38,7 @@ import type { TestAttemptTable } from './db/schema';
 import { isEnrolled } from './enrolments';
 import { fieldErrors } from './form';
 import { questionsFor } from './question-bank';
+import { inTrainerScope, trainerMaySee, trainerScope } from './trainer-scope';
 
 export type { RunnerView } from '$lib/practice/test-items';
 
@@ -393,10 +394,10 @@ export async function reviewAttempt(userId: string, attemptId: string, { db = de
 	return review(row);
 }
 
-/** Any graded attempt with the person it belongs to, for trainers and registrars. */
-export async function reviewAttemptForStaff(attemptId: string, { db = defaultDb }: Options = {}) {
+/** An attempt with the person it belongs to, for a trainer or registrar whose scope holds that person; null otherwise. */
+export async function reviewAttemptForStaff(viewerId: string, attemptId: string, { db = defaultDb }: Options = {}) {
 	const row = await db.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).executeTakeFirst();
-	if (!row) return null;
+	if (!row || !(await trainerMaySee(viewerId, row.user_id, db))) return null;
 	const person = await db.selectFrom('User').select(['id', 'name', 'email']).where('id', '=', row.user_id).executeTakeFirstOrThrow();
 	return { person, summary: summarise(row), review: review(row) };
 }
@@ -422,13 +423,18 @@ export interface StaffAttemptRow extends AttemptSummary {
 	waitWaived: boolean;
 }
 
-/** Attempts per trainee, newest first, optionally for one course. */
-export async function listAttemptsForStaff({ courseSlug, db = defaultDb, now = new Date() }: Options & { courseSlug?: string } = {}): Promise<StaffAttemptRow[]> {
+/** Attempts of the trainees in the viewer's trainer scope, newest first, optionally for one course. */
+export async function listAttemptsForStaff(
+	viewerId: string,
+	{ courseSlug, db = defaultDb, now = new Date() }: Options & { courseSlug?: string } = {}
+): Promise<StaffAttemptRow[]> {
+	const scope = await trainerScope(viewerId, db);
 	let query = db
 		.selectFrom('test_attempt')
 		.innerJoin('User', 'User.id', 'test_attempt.user_id')
 		.selectAll('test_attempt')
 		.select(['User.name as person_name', 'User.email as person_email'])
+		.where(inTrainerScope(scope, 'test_attempt.user_id'))
 		.orderBy('test_attempt.started_at', 'desc')
 		.limit(500);
 	if (courseSlug) query = query.where('test_attempt.course_slug', '=', courseSlug);
@@ -457,12 +463,13 @@ export async function listAttemptsForStaff({ courseSlug, db = defaultDb, now = n
 
 /**
  * Lets a trainee retake now instead of after the waiting time, recorded in the audit log.
- * Only for the latest attempt of a trainee who is waiting; the attempts allowed still apply.
+ * Only for the latest attempt of a trainee who is waiting and in the actor's trainer scope;
+ * the attempts allowed still apply.
  */
 export async function waiveWait(actorId: string, attemptId: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<{ ok: true } | Refusal> {
 	return inTransaction(db, async (trx) => {
 		const row = await trx.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).executeTakeFirst();
-		if (!row) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
+		if (!row || !(await trainerMaySee(actorId, row.user_id, trx))) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
 		const course = getCourse(row.course_slug);
 		const all = (await trx.selectFrom('test_attempt').selectAll().where('user_id', '=', row.user_id).where('course_slug', '=', row.course_slug).execute()) as Row[];
 		const latest = all.filter((r) => r.submitted_at !== null).sort((a, b) => b.submitted_at!.localeCompare(a.submitted_at!))[0];

@@ -37,3 +37,7 @@ export function listMembers(companyId: string, db: DB = defaultDb) {
 		.orderBy('User.name')
 		.execute();
 }
+
+export function listCompanies(db: DB = defaultDb) {
+	return db.selectFrom('company').select(['id', 'name']).orderBy('name').execute();
+}

@@ -10,6 +10,8 @@ export interface DemoPerson {
 	email: string;
 	roles: ('trainer' | 'inspector' | 'registrar')[];
 	company?: { name: string; role: 'admin' | 'member' };
+	/** A trainer of their own company: works with that company's crew only. */
+	companyTrainer?: boolean;
 	/** Courses the demo enrols the person in directly (seats and payment come later). */
 	enrolments?: string[];
 	/** What the person is in the demo, printed beside the login. */
@@ -27,7 +29,7 @@ export const DEMO_PEOPLE: DemoPerson[] = [
 	{ name: 'Sam Okafor', email: 'sam@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
 	{ name: 'Priya Venn', email: 'priya@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
 	{ name: 'Luca Marsh', email: 'luca@brindlewick.test', roles: [], company: { name: 'Brindlewick Drainage', role: 'member' }, part: 'trainee, Brindlewick Drainage', enrolments: ['point-repair-installer', 'packer-pressure-safety'] },
-	{ name: 'Dana Whitlow', email: 'admin@tarnside.test', roles: ['trainer'], company: { name: 'Tarnside Pipe Works', role: 'admin' }, part: 'company admin and trainer, Tarnside Pipe Works' },
+	{ name: 'Dana Whitlow', email: 'admin@tarnside.test', roles: ['trainer'], company: { name: 'Tarnside Pipe Works', role: 'admin' }, companyTrainer: true, part: 'company admin and company trainer (own crew only), Tarnside Pipe Works' },
 	{ name: 'Ade Kowal', email: 'ade@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works', enrolments: ['point-repair-installer', 'transition-patches', 'packer-pressure-safety'] },
 	{ name: 'Finn Ostrander', email: 'finn@tarnside.test', roles: [], company: { name: 'Tarnside Pipe Works', role: 'member' }, part: 'trainee, Tarnside Pipe Works', enrolments: ['point-repair-installer', 'transition-patches', 'packer-pressure-safety'] }
 ];

@@ -1,7 +1,7 @@
 import { addMember, createCompany } from './companies';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { DEMO_COMPANIES, DEMO_PASSWORD, DEMO_PEOPLE } from './demo-people';
-import { grantRole } from './roles';
+import { grantRole, setTrainerScope } from './roles';
 import { createUser } from './users';
 import { hashPassword } from './passwords';
 import { enrol } from './enrolments';
@@ -19,6 +19,7 @@ export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
 			await trx.updateTable('User').set({ passwordHash }).where('id', '=', user.id).execute();
 			for (const role of person.roles) await grantRole(null, user.id, role, trx);
 			if (person.company) await addMember(null, companyIds.get(person.company.name)!, user.id, person.company.role, trx);
+			if (person.company && person.companyTrainer) await setTrainerScope(null, user.id, companyIds.get(person.company.name)!, trx);
 			for (const course of person.enrolments ?? []) await enrol(null, user.id, course, 'demo', trx);
 		}
 	});

@@ -13,11 +13,12 @@ export interface FormFailure {
 const secretFields = /password|confirm|token|secret/i;
 
 export function safeValues(form: FormData): Record<string, string> {
-	const values: Record<string, string> = {};
+	// Field names come from the request: collect them without a prototype.
+	const values: Record<string, string> = Object.create(null);
 	for (const [key, value] of form) {
 		if (typeof value === 'string' && !secretFields.test(key)) values[key] = value.slice(0, 500);
 	}
-	return values;
+	return { ...values };
 }
 
 /** The first message per field, keyed by the field's dotted path ("" for form-wide). */

@@ -16,6 +16,7 @@ import { getCourse } from '$lib/content';
 import { itemKey, itemLabel, type DrawnItem } from '$lib/practice/test-items';
 import { db as defaultDb, type DB } from './db';
 import type { TestAttemptTable } from './db/schema';
+import { inTrainerScope, trainerScope } from './trainer-scope';
 
 /** One submitted attempt, reduced to what the statistics need. */
 export interface ScoredAttempt {
@@ -112,13 +113,18 @@ export interface ItemStatistic extends ItemNumbers {
 	source: 'bank' | 'computed';
 }
 
-/** Statistics for every item drawn in a course's submitted attempts, worst discrimination first. */
-export async function itemStatistics(courseSlug: string, db: DB = defaultDb): Promise<{ attemptCount: number; items: ItemStatistic[] } | null> {
+/**
+ * Statistics for every item drawn in a course's submitted attempts of the trainees in the
+ * viewer's trainer scope, worst discrimination first.
+ */
+export async function itemStatistics(viewerId: string, courseSlug: string, db: DB = defaultDb): Promise<{ attemptCount: number; items: ItemStatistic[] } | null> {
 	const course = getCourse(courseSlug);
 	if (!course) return null;
+	const scope = await trainerScope(viewerId, db);
 	const rows = (await db
 		.selectFrom('test_attempt')
 		.selectAll()
+		.where(inTrainerScope(scope, 'test_attempt.user_id'))
 		.where('course_slug', '=', courseSlug)
 		.where('submitted_at', 'is not', null)
 		.execute()) as Selectable<TestAttemptTable>[];

@@ -53,6 +53,26 @@ export async function revokeRole(actorId: string | null, userId: string, role: P
 	});
 }
 
+/**
+ * Sets whose crew a trainer works with: `companyId` null for everyone (the training provider's
+ * trainer), else that one company's crew. Grants the trainer role when not held. False when
+ * the company does not exist.
+ */
+export async function setTrainerScope(actorId: string | null, userId: string, companyId: string | null, db: DB = defaultDb): Promise<boolean> {
+	return inTransaction(db, async (trx) => {
+		if (companyId !== null && !(await trx.selectFrom('company').select('id').where('id', '=', companyId).executeTakeFirst())) return false;
+		const held = await trx.selectFrom('user_role').select('company_id').where('user_id', '=', userId).where('role', '=', 'trainer').executeTakeFirst();
+		if (held && held.company_id === companyId) return true;
+		if (held) {
+			await trx.updateTable('user_role').set({ company_id: companyId }).where('user_id', '=', userId).where('role', '=', 'trainer').execute();
+		} else {
+			await trx.insertInto('user_role').values({ user_id: userId, role: 'trainer', company_id: companyId, granted_at: new Date().toISOString(), granted_by: actorId }).execute();
+			await recordAudit({ actorId, action: 'role.grant', subjectType: 'user', subjectId: userId, detail: { role: 'trainer', companyId } }, trx);
+		}
+		await recordAudit({ actorId, action: 'role.trainer-scope', subjectType: 'user', subjectId: userId, detail: { companyId } }, trx);
+		return true;
+	});
+}
 
 /** Platform roles for many people at once (everyone is also a trainee), keyed by user id. */
 export async function rolesByUser(userIds: string[], db: DB = defaultDb): Promise<Map<string, Role[]>> {

@@ -48,6 +48,8 @@ export interface UserRoleTable {
 	role: PlatformRole;
 	granted_at: string;
 	granted_by: string | null;
+	/** Trainer grants only: null for the training provider's trainer (everyone), else the one company whose crew this trainer works with. */
+	company_id: Generated<string | null>;
 }
 
 export interface CompanyTable {

@@ -8,10 +8,10 @@ import type { Actions, PageServerLoad } from './$types';
 
 /** Course test attempts per trainee, for trainers and registrars. */
 export const load: PageServerLoad = async (event) => {
-	requireRole(event, 'trainer', 'registrar');
+	const me = requireRole(event, 'trainer', 'registrar');
 	const slug = event.url.searchParams.get('course');
 	if (slug && !getCourse(slug)) error(404, 'No such course');
-	const attempts = await listAttemptsForStaff({ courseSlug: slug ?? undefined });
+	const attempts = await listAttemptsForStaff(me.id, { courseSlug: slug ?? undefined });
 	return {
 		course: slug,
 		courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })),

@@ -1,19 +1,10 @@
-import { json } from '@sveltejs/kit';
+import { apiError, codeForStatus } from '$lib/server/api';
 import type { Refusal } from '$lib/server/attempts';
 
-/** A refused test action as JSON: the message, a machine reason, and field messages when any. */
+/** A refused test action in the API's error shape, with the machine reason, and the summary or retry time when any. */
 export function refusal(r: Refusal): Response {
 	const { status, message, reason, errors, summary, availableAt } = r;
-	return json({ error: message, reason, ...(errors ? { errors } : {}), ...(summary ? { summary } : {}), ...(availableAt ? { availableAt } : {}) }, { status });
-}
-
-/** The request body as JSON, or a 400 response. */
-export async function readJson(request: Request): Promise<{ ok: true; body: unknown } | { ok: false; response: Response }> {
-	try {
-		return { ok: true, body: JSON.parse(await request.text()) };
-	} catch {
-		return { ok: false, response: json({ error: 'The request body must be JSON.', errors: { body: 'Not JSON' } }, { status: 400 }) };
-	}
+	return apiError(status, codeForStatus(status), message, errors, { reason, extra: { ...(summary ? { summary } : {}), ...(availableAt ? { availableAt } : {}) } });
 }
 
 export const resultUrl = (courseSlug: string, attemptId: string) => `/courses/${courseSlug}/test/${attemptId}`;

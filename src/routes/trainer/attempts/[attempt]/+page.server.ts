@@ -6,8 +6,8 @@ import type { PageServerLoad } from './$types';
 
 /** One trainee's attempt with every answer, for trainers and registrars. Nothing is shown before submission. */
 export const load: PageServerLoad = async (event) => {
-	requireRole(event, 'trainer', 'registrar');
-	const found = await reviewAttemptForStaff(event.params.attempt);
+	const me = requireRole(event, 'trainer', 'registrar');
+	const found = await reviewAttemptForStaff(me.id, event.params.attempt);
 	if (!found) error(404, 'No such attempt');
 	const course = getCourse(found.summary.courseSlug);
 	const lessons = Object.fromEntries((course?.lessons ?? []).map((l) => [l.slug, { href: l.href, title: l.title }]));

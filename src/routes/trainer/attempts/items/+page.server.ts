@@ -6,11 +6,11 @@ import type { PageServerLoad } from './$types';
 
 /** Per question of one course's test: times drawn, share right, discrimination. */
 export const load: PageServerLoad = async (event) => {
-	requireRole(event, 'trainer', 'registrar');
+	const me = requireRole(event, 'trainer', 'registrar');
 	const slug = event.url.searchParams.get('course') ?? courses[0].slug;
 	const course = getCourse(slug);
 	if (!course) error(404, 'No such course');
-	const stats = await itemStatistics(slug);
+	const stats = await itemStatistics(me.id, slug);
 	if (!stats) error(404, 'No such course');
 	const lessons = Object.fromEntries(course.lessons.map((l) => [l.slug, l.title]));
 	return {

@@ -1,4 +1,5 @@
-import { error, json } from '@sveltejs/kit';
+import { json } from '@sveltejs/kit';
+import { apiError } from '$lib/server/api';
 import { getAttempt } from '$lib/server/attempts';
 import { requireUser } from '$lib/server/authz';
 import { resultUrl } from '../respond';
@@ -8,7 +9,7 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = async (event) => {
 	const me = requireUser(event);
 	const attempt = await getAttempt(me.id, event.params.attempt);
-	if (!attempt) error(404, 'No such attempt.');
+	if (!attempt) return apiError(404, 'not_found', 'No such attempt.');
 	if (attempt.status === 'submitted') return json({ ...attempt, resultUrl: resultUrl(attempt.summary.courseSlug, attempt.summary.id) });
 	return json(attempt);
 };

@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { getCourse } from '$lib/content';
+import { apiError } from '$lib/server/api';
 import { requireUser } from '$lib/server/authz';
 import { isEnrolled } from '$lib/server/enrolments';
 import { getCourseProgress } from '$lib/server/progress';
@@ -9,7 +10,7 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = async (event) => {
 	const user = requireUser(event);
 	const course = getCourse(event.params.course);
-	if (!course) return json({ message: 'No such course.' }, { status: 404 });
-	if (!(await isEnrolled(user.id, course.slug))) return json({ message: 'You are not enrolled in this course.' }, { status: 403 });
+	if (!course) return apiError(404, 'not_found', 'No such course.');
+	if (!(await isEnrolled(user.id, course.slug))) return apiError(403, 'forbidden', 'You are not enrolled in this course.');
 	return json(await getCourseProgress(user.id, course));
 };

@@ -1,4 +1,5 @@
-import { error, json } from '@sveltejs/kit';
+import { json } from '@sveltejs/kit';
+import { apiError } from '$lib/server/api';
 import { getAttempt, reviewAttempt } from '$lib/server/attempts';
 import { requireUser } from '$lib/server/authz';
 import type { RequestHandler } from './$types';
@@ -7,9 +8,9 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = async (event) => {
 	const me = requireUser(event);
 	const attempt = await getAttempt(me.id, event.params.attempt);
-	if (!attempt) error(404, 'No such attempt.');
-	if (attempt.status === 'open') return json({ error: 'This attempt is not submitted yet.', reason: 'open' }, { status: 409 });
+	if (!attempt) return apiError(404, 'not_found', 'No such attempt.');
+	if (attempt.status === 'open') return apiError(409, 'conflict', 'This attempt is not submitted yet.', undefined, { reason: 'open' });
 	const review = await reviewAttempt(me.id, event.params.attempt);
-	if (!review) error(404, 'No such attempt.');
+	if (!review) return apiError(404, 'not_found', 'No such attempt.');
 	return json(review);
 };

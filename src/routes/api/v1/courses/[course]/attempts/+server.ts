@@ -1,4 +1,5 @@
-import { error, json } from '@sveltejs/kit';
+import { json } from '@sveltejs/kit';
+import { apiError } from '$lib/server/api';
 import { startAttempt, testStatus } from '$lib/server/attempts';
 import { requireUser } from '$lib/server/authz';
 import { refusal } from '../../../attempts/respond';
@@ -8,7 +9,7 @@ import type { RequestHandler } from './$types';
 export const GET: RequestHandler = async (event) => {
 	const me = requireUser(event);
 	const status = await testStatus(me.id, event.params.course);
-	if (!status) error(404, 'No such course.');
+	if (!status) return apiError(404, 'not_found', 'No such course.');
 	return json(status);
 };
 

@@ -1,0 +1,214 @@
+/**
+ * The JSON API's one contract (documented on /api-docs):
+ *
+ * - Every 4xx/5xx answer is `{ "error": { "code", "message", "fields"?, "reason"?, "id"? } }`;
+ *   `code` is one of `ApiErrorCode`, `fields` holds one message per dotted field path,
+ *   `reason` a finer machine reason where a route has one, `id` the log reference of a 500.
+ *   Routes may add data beside `error` (a closed attempt's summary, when to retry).
+ * - Bodies are JSON (`application/json` or `+json`, otherwise 415), read with a byte cap
+ *   (413 past it) and parsed with a zod schema (400 with `fields`).
+ * - State-changing calls must come from this site's own pages (same `Origin`, as SvelteKit
+ *   checks for form actions): 403 otherwise. Pure computations are exempt (`ORIGIN_FREE`).
+ * - `apiGuard` (a handle hook) turns anything else an /api route answers with an error
+ *   status (a thrown `error()`, an unknown route, a crash, the adapter's body limit) into
+ *   the same shape, and marks every API answer `Cache-Control: no-store`.
+ */
+import { json, type Handle, type RequestEvent } from '@sveltejs/kit';
+import type { z } from 'zod';
+import { errorBody, isApiErrorBody, zodFields, type ApiErrorCode, type ApiErrorDetail } from '$lib/api-error';
+
+export { errorBody, errorMessage, zodFields, type ApiErrorBody, type ApiErrorCode } from '$lib/api-error';
+
+export interface ApiErrorOptions {
+	/** A finer machine-readable reason than the code, such as "time-up". */
+	reason?: string;
+	/** Data sent beside `error`, such as a closed attempt's summary. */
+	extra?: Record<string, unknown>;
+	headers?: HeadersInit;
+	/** The log reference of an unexpected error. */
+	id?: string;
+}
+
+const codeByStatus = new Map<number, ApiErrorCode>([
+	[400, 'bad_request'],
+	[401, 'unauthorized'],
+	[403, 'forbidden'],
+	[404, 'not_found'],
+	[405, 'method_not_allowed'],
+	[409, 'conflict'],
+	[413, 'payload_too_large'],
+	[415, 'unsupported_media_type'],
+	[429, 'rate_limited'],
+	[503, 'unavailable']
+]);
+
+const defaultMessages = new Map<number, string>([
+	[400, 'The request is not valid.'],
+	[401, 'Sign in first.'],
+	[403, 'You may not do this.'],
+	[404, 'Not found.'],
+	[405, 'This method is not allowed here.'],
+	[409, 'This conflicts with the current state.'],
+	[413, 'The request body is too large.'],
+	[415, 'The request body must be JSON (Content-Type: application/json).'],
+	[429, 'Too many requests. Try again later.'],
+	[503, 'The service is busy. Try again shortly.']
+]);
+
+/** The code for an HTTP status: 4xx without its own code is bad_request, 5xx is internal. */
+export function codeForStatus(status: number): ApiErrorCode {
+	return codeByStatus.get(status) ?? (status >= 500 ? 'internal' : 'bad_request');
+}
+
+function defaultMessage(status: number): string {
+	return defaultMessages.get(status) ?? (status >= 500 ? 'Something went wrong on our side.' : 'The request is not valid.');
+}
+
+/** An error answer in the API's one shape. */
+export function apiError(
+	status: number,
+	code: ApiErrorCode,
+	message: string,
+	fields?: Record<string, string>,
+	{ reason, extra, headers, id }: ApiErrorOptions = {}
+): Response {
+	const error: ApiErrorDetail = errorBody(code, message, fields).error;
+	if (reason) error.reason = reason;
+	if (id) error.id = id;
+	return json({ ...extra, error }, { status, headers });
+}
+
+export const DEFAULT_MAX_BYTES = 64 * 1024;
+
+export type ReadResult<T> = { ok: true; data: T } | { ok: false; response: Response };
+
+function isJsonType(contentType: string | null): boolean {
+	if (!contentType) return false;
+	const type = contentType.split(';')[0].trim().toLowerCase();
+	return type === 'application/json' || (type.startsWith('application/') && type.endsWith('+json'));
+}
+
+const tooLarge = (maxBytes: number) => apiError(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`);
+
+/**
+ * Reads at most `maxBytes` of the body, stopping as soon as more arrive. Throws nothing:
+ * a body over the cap (or over the server's own limit) is 413.
+ */
+export async function readBodyText(request: Request, maxBytes = DEFAULT_MAX_BYTES): Promise<{ ok: true; text: string } | { ok: false; response: Response }> {
+	const declared = Number(request.headers.get('content-length'));
+	if (Number.isFinite(declared) && declared > maxBytes) return { ok: false, response: tooLarge(maxBytes) };
+	if (!request.body) return { ok: true, text: '' };
+	const reader = request.body.getReader();
+	const chunks: Uint8Array[] = [];
+	let size = 0;
+	try {
+		for (;;) {
+			const { done, value } = await reader.read();
+			if (done) break;
+			size += value.byteLength;
+			if (size > maxBytes) {
+				await reader.cancel().catch(() => {});
+				return { ok: false, response: tooLarge(maxBytes) };
+			}
+			chunks.push(value);
+		}
+	} catch (e) {
+		if ((e as { status?: number } | null)?.status === 413) return { ok: false, response: tooLarge(maxBytes) };
+		return { ok: false, response: apiError(400, 'bad_request', 'The request body could not be read.') };
+	}
+	const bytes = new Uint8Array(size);
+	let at = 0;
+	for (const chunk of chunks) {
+		bytes.set(chunk, at);
+		at += chunk.byteLength;
+	}
+	try {
+		return { ok: true, text: new TextDecoder('utf-8', { fatal: true }).decode(bytes) };
+	} catch {
+		return { ok: false, response: apiError(400, 'bad_request', 'The request body is not valid UTF-8.') };
+	}
+}
+
+/** The body text of a JSON request: 415 for another content type, 413 past `maxBytes`. */
+export async function readJsonText(request: Request, maxBytes = DEFAULT_MAX_BYTES): Promise<{ ok: true; text: string } | { ok: false; response: Response }> {
+	if (!isJsonType(request.headers.get('content-type'))) {
+		return { ok: false, response: apiError(415, 'unsupported_media_type', defaultMessage(415)) };
+	}
+	return readBodyText(request, maxBytes);
+}
+
+/**
+ * Reads a JSON body and validates it with `schema`: 415 for another content type, 413 past
+ * `maxBytes`, 400 with `fields` for text that is not JSON or does not fit the schema.
+ * `hint` is added to the 400 message (for example the body's expected form).
+ */
+export async function readJson<S extends z.ZodType>(
+	request: Request,
+	schema: S,
+	{ maxBytes = DEFAULT_MAX_BYTES, hint }: { maxBytes?: number; hint?: string } = {}
+): Promise<ReadResult<z.output<S>>> {
+	const read = await readJsonText(request, maxBytes);
+	if (!read.ok) return read;
+	let raw: unknown;
+	try {
+		raw = JSON.parse(read.text);
+	} catch {
+		return { ok: false, response: apiError(400, 'bad_request', `The request body is not JSON.${hint ? ` ${hint}` : ''}`, { body: 'Not JSON' }) };
+	}
+	const parsed = schema.safeParse(raw);
+	if (!parsed.success) {
+		return { ok: false, response: apiError(400, 'bad_request', `Some fields are missing or not valid.${hint ? ` ${hint}` : ''}`, zodFields(parsed.error)) };
+	}
+	return { ok: true, data: parsed.data };
+}
+
+/** Routes that compute and store nothing: other programs may POST to them from anywhere. */
+export const ORIGIN_FREE = new Set(['/api/v1/calculations/[id]', '/api/v1/practice/[generator]/check']);
+
+const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+/** A 403 for a state-changing call from another origin (or none), as for form actions; null when allowed. */
+export function refuseCrossOrigin(event: Pick<RequestEvent, 'request' | 'url' | 'route'>): Response | null {
+	if (SAFE_METHODS.has(event.request.method)) return null;
+	if (event.route.id && ORIGIN_FREE.has(event.route.id)) return null;
+	if (event.request.headers.get('origin') === event.url.origin) return null;
+	return apiError(403, 'forbidden', 'Cross-site requests are refused: send the Origin header of this site.');
+}
+
+export const isApiPath = (pathname: string) => pathname === '/api' || pathname.startsWith('/api/');
+
+/** Rewrites an error answer not yet in the API's shape, keeping its message, fields and headers. */
+async function normalise(response: Response, id: string | undefined): Promise<Response> {
+	let body: unknown = null;
+	if (isJsonType(response.headers.get('content-type'))) body = await response.clone().json().catch(() => null);
+	if (isApiErrorBody(body)) return response;
+	const old = (typeof body === 'object' && body !== null ? body : {}) as Record<string, unknown>;
+	const status = response.status;
+	const message =
+		status >= 500 ? defaultMessage(status) : typeof old.message === 'string' ? old.message : typeof old.error === 'string' ? old.error : defaultMessage(status);
+	const fields = typeof old.errors === 'object' && old.errors !== null ? (old.errors as Record<string, string>) : undefined;
+	const headers = new Headers(response.headers);
+	headers.delete('content-type');
+	headers.delete('content-length');
+	return apiError(status, codeForStatus(status), message, fields, { headers, id: id ?? (typeof old.id === 'string' ? old.id : undefined) });
+}
+
+/** Where `handleError` leaves the log reference of an unexpected error for `apiGuard`. */
+export const errorIds = new WeakMap<Request, string>();
+
+/**
+ * The handle hook for /api paths: refuses cross-origin state changes before anything runs,
+ * answers every error in the API's shape, and forbids caching.
+ */
+export const apiGuard: Handle = async ({ event, resolve }) => {
+	if (!isApiPath(event.url.pathname)) return resolve(event);
+	let response = refuseCrossOrigin(event) ?? (await resolve(event));
+	if (response.status >= 400) response = await normalise(response, errorIds.get(event.request));
+	try {
+		response.headers.set('Cache-Control', 'no-store');
+	} catch {
+		response = new Response(response.body, response);
+		response.headers.set('Cache-Control', 'no-store');
+	}
+	return response;
+};
