@@ -117,7 +117,7 @@ test('a person without a company buys one seat and starts the course', async ({ 
 	const lesson = await inspector.get('/courses/point-repair-installer/wet-out', { maxRedirects: 0 });
 	expect(lesson.status()).toBe(200);
 	// A second seat for the same person is refused.
-	const again = await inspector.post('/api/v1/orders', { data: { course: 'point-repair-installer', quantity: 1 } });
+	const again = await inspector.post('/api/v1/orders', { headers: { origin: baseURL }, data: { course: 'point-repair-installer', quantity: 1 } });
 	expect(again.status()).toBe(409);
 	expect((await again.json()).error.code).toBe('conflict');
 	await inspector.dispose();
@@ -129,16 +129,19 @@ test('the API refuses other companies, bad bodies and forged webhooks', async ()
 	const me = await newRequest.newContext({ baseURL });
 	await signInRequest(me, who.companyAdmin);
 	const companyId = ((await (await me.get('/api/v1/me')).json()).companies as { id: string }[])[0].id;
-	expect((await trainee.post(`/api/v1/companies/${companyId}/invitations`, { data: { invitations: [{ name: 'X', email: 'x@x.test', course: 'PR-100' }] } })).status()).toBe(403);
+	const origin = { origin: baseURL };
+	expect((await trainee.post(`/api/v1/companies/${companyId}/invitations`, { headers: origin, data: { invitations: [{ name: 'X', email: 'x@x.test', course: 'PR-100' }] } })).status()).toBe(403);
 	expect((await trainee.get(`/api/v1/companies/${companyId}/seats`)).status()).toBe(403);
-	expect((await trainee.post('/api/v1/orders', { data: { course: 'point-repair-installer', quantity: 3, companyId } })).status()).toBe(403);
+	expect((await trainee.post('/api/v1/orders', { headers: origin, data: { course: 'point-repair-installer', quantity: 3, companyId } })).status()).toBe(403);
+	// A state change from another site is refused before anything runs.
+	expect((await me.post('/api/v1/orders', { headers: { origin: 'http://evil.test' }, data: { course: 'point-repair-installer', quantity: 1, companyId } })).status()).toBe(403);
 
-	const bad = await me.post('/api/v1/orders', { data: { course: 'point-repair-installer', quantity: 201, companyId } });
+	const bad = await me.post('/api/v1/orders', { headers: origin, data: { course: 'point-repair-installer', quantity: 201, companyId } });
 	expect(bad.status()).toBe(400);
 	expect((await bad.json()).error.fields.quantity).toBeTruthy();
-	const proto = await me.post('/api/v1/orders', { headers: { 'content-type': 'application/json' }, data: '{"course":"point-repair-installer","quantity":1,"__proto__":{"admin":true}}' });
+	const proto = await me.post('/api/v1/orders', { headers: { ...origin, 'content-type': 'application/json' }, data: '{"course":"point-repair-installer","quantity":1,"__proto__":{"admin":true}}' });
 	expect(proto.status()).toBe(400);
-	const preview = await me.post(`/api/v1/companies/${companyId}/invitations?preview=1`, { headers: { 'content-type': 'text/csv' }, data: 'name,email,course\n"=HYPERLINK(""http://x.test"")",f@x.test,PR-100\nBad,nope,PR-100\n' });
+	const preview = await me.post(`/api/v1/companies/${companyId}/invitations?preview=1`, { headers: { ...origin, 'content-type': 'text/csv' }, data: 'name,email,course\n"=HYPERLINK(""http://x.test"")",f@x.test,PR-100\nBad,nope,PR-100\n' });
 	const rows = (await preview.json()).rows;
 	expect(rows[0].name).toBe('=HYPERLINK("http://x.test")');
 	expect(rows[1]).toMatchObject({ line: 3, errors: ['"nope" is not an e-mail address.'] });
@@ -149,6 +152,7 @@ test('the API refuses other companies, bad bodies and forged webhooks', async ()
 		data: JSON.stringify({ id: 'evt_forged', type: 'checkout.session.completed', data: { object: {} } })
 	});
 	expect(forged.status()).toBe(400);
+	expect((await forged.json()).error).toMatchObject({ code: 'bad_request', reason: 'signature-invalid' });
 	await Promise.all([trainee.dispose(), me.dispose(), anonymous.dispose()]);
 	void DEMO_PASSWORD;
 });

@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { apiError, readJsonBody } from '$lib/server/api-shim';
+import { apiError, codeForStatus, readJson } from '$lib/server/api';
 import { requireUser } from '$lib/server/authz';
 import { getOrder, MAX_SEATS_PER_ORDER, OrderRefused, orderView, startOrder } from '$lib/server/orders';
 import type { RequestHandler } from './$types';
@@ -14,7 +14,7 @@ const orderBody = z.strictObject({
 /** Opens an order and its checkout; the answer carries `checkoutUrl`, where the buyer pays. */
 export const POST: RequestHandler = async (event) => {
 	const user = requireUser(event);
-	const body = await readJsonBody(event.request, orderBody, 4 * 1024);
+	const body = await readJson(event.request, orderBody, { maxBytes: 4 * 1024 });
 	if (!body.ok) return body.response;
 	try {
 		const started = await startOrder(user, { courseSlug: body.data.course, quantity: body.data.quantity, companyId: body.data.companyId ?? null }, event.url.origin);
@@ -22,8 +22,9 @@ export const POST: RequestHandler = async (event) => {
 		return json({ ...orderView(order!), checkoutUrl: started.checkout_url }, { status: 201, headers: { location: `/api/v1/orders/${started.id}` } });
 	} catch (e) {
 		if (e instanceof OrderRefused) {
-			const code = { 400: 'invalid_order', 403: 'forbidden', 404: 'not_found', 409: 'conflict', 502: 'payment_service' }[e.status];
-			return apiError(e.status, code, e.message, e.field ? { [e.field]: e.message } : undefined);
+			// The payment service not answering is ours to retry, not the caller's mistake.
+			if (e.status === 502) return apiError(503, 'unavailable', e.message, undefined, { reason: 'payment-service' });
+			return apiError(e.status, codeForStatus(e.status), e.message, e.field ? { [e.field]: e.message } : undefined);
 		}
 		throw e;
 	}

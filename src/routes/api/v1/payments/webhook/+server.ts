@@ -1,13 +1,15 @@
 import { json } from '@sveltejs/kit';
+import { readBodyText } from '$lib/server/api';
 import { MAX_WEBHOOK_BYTES, receivePaymentWebhook } from '$lib/server/payment-webhook';
 import type { RequestHandler } from './$types';
 
-/** The payment service's webhook: no session, authenticated by its signature over the raw body. */
+/**
+ * The payment service's webhook: no session and no Origin (listed in ORIGIN_FREE); it is
+ * authenticated by the signature over the raw body, so the body is read as text, never parsed first.
+ */
 export const POST: RequestHandler = async ({ request }) => {
-	const length = Number(request.headers.get('content-length') ?? 0);
-	if (length > MAX_WEBHOOK_BYTES) return json({ received: false, error: { code: 'too_large', message: 'Body too large.' } }, { status: 413 });
-	const raw = await request.text();
-	if (raw.length > MAX_WEBHOOK_BYTES) return json({ received: false, error: { code: 'too_large', message: 'Body too large.' } }, { status: 413 });
-	const answer = await receivePaymentWebhook(raw, request.headers.get('stripe-signature'));
+	const read = await readBodyText(request, MAX_WEBHOOK_BYTES);
+	if (!read.ok) return read.response;
+	const answer = await receivePaymentWebhook(read.text, request.headers.get('stripe-signature'));
 	return json(answer.body, { status: answer.status });
 };

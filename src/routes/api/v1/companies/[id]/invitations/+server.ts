@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { apiError, readJsonBody, readText } from '$lib/server/api-shim';
+import { apiError, readBodyText, readJson } from '$lib/server/api';
 import { requireCompanyAdmin } from '$lib/server/authz';
 import { checkInvitations, courseRefs, inviteCrew, rowsFromInput } from '$lib/server/invitations';
 import { MAX_ROSTER_BYTES, MAX_ROSTER_ROWS, parseRoster } from '$lib/roster';
@@ -23,13 +23,13 @@ export const POST: RequestHandler = async (event) => {
 	const type = event.request.headers.get('content-type') ?? '';
 	let rows;
 	if (/^text\/csv\b/i.test(type)) {
-		const text = await readText(event.request, MAX_ROSTER_BYTES);
-		if (text === null) return apiError(413, 'body_too_large', 'The roster is larger than 2 MB.');
-		const parsed = parseRoster(text, courseRefs);
-		if (parsed.problems.length) return apiError(400, 'invalid_roster', parsed.problems.join(' '));
+		const read = await readBodyText(event.request, MAX_ROSTER_BYTES);
+		if (!read.ok) return read.response;
+		const parsed = parseRoster(read.text, courseRefs);
+		if (parsed.problems.length) return apiError(400, 'bad_request', parsed.problems.join(' '), undefined, { reason: 'invalid-roster' });
 		rows = parsed.rows;
 	} else if (/^application\/json\b/i.test(type)) {
-		const body = await readJsonBody(event.request, invitationList, MAX_ROSTER_BYTES);
+		const body = await readJson(event.request, invitationList, { maxBytes: MAX_ROSTER_BYTES });
 		if (!body.ok) return body.response;
 		rows = rowsFromInput(body.data.invitations);
 	} else return apiError(415, 'unsupported_media_type', 'Send application/json or text/csv.');
@@ -40,6 +40,6 @@ export const POST: RequestHandler = async (event) => {
 		return json({ rows: report(checked), ok: checked.every((r) => r.errors.length === 0) });
 	}
 	const result = await inviteCrew(user.id, event.params.id, rows, event.url.origin);
-	if (!result.ok) return apiError(422, 'invalid_rows', 'Some rows have errors; nothing was sent.', undefined, { rows: report(result.rows) });
+	if (!result.ok) return apiError(422, 'bad_request', 'Some rows have errors; nothing was sent.', undefined, { reason: 'invalid-rows', extra: { rows: report(result.rows) } });
 	return json({ sent: result.sent }, { status: 201 });
 };
