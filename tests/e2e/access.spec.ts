@@ -59,7 +59,7 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	[`/orders/${NO_ID}/cancel`, { anonymous: 'in', other: 404 }],
 	[`/orders/${NO_ID}/receipt`, { anonymous: 'in', other: 404 }],
 	[`/orders/${NO_ID}/receipt.pdf`, { anonymous: 'in', other: 404 }],
-	['/company/seats', { anonymous: 'in', companyAdmin: 'ok', other: 403 }],
+	['/company/seats', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
 	['/registrar/orders', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	[`/registrar/orders/${NO_ID}`, { anonymous: 'in', registrar: 404, other: 403 }],
 	['/invitations/no-such-invitation-token-000000', 404],
