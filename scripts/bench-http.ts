@@ -117,8 +117,7 @@ async function startApp(buildDir: string): Promise<{ url: string; child: ChildPr
 			FAKES: '0',
 			SIGN_IN_LIMIT_PER_IP: '1000000',
 			SIGN_IN_LIMIT_PER_EMAIL: '1000000',
-			CALC_API_LIMIT_PER_MINUTE: '1000000000',
-			PRACTICE_API_LIMIT_PER_MINUTE: '1000000000'
+			RATE_LIMIT_FACTOR: '1000000'
 		},
 		stdio: ['ignore', 'ignore', 'inherit']
 	});

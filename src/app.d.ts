@@ -10,6 +10,10 @@ declare global {
 		interface Locals {
 			/** The signed-in person with roles and companies, loaded fresh on every request. */
 			user: Identity | null;
+			/** The open server-side session behind `user` (see $lib/server/sessions). */
+			sessionId: string | null;
+			/** Set by handleError when the database's write lock could not be had: the answer becomes 503. */
+			databaseBusy: boolean;
 		}
 		interface PageData {
 			user?: Identity | null;

@@ -1,41 +1,103 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
-import { apiGuard, errorIds } from '$lib/server/api';
-import { authHandle } from '$lib/server/auth';
-import { config } from '$lib/server/config';
+import { apiError, apiGuard, errorIds, isApiPath } from '$lib/server/api';
+import { authHandle, authSecret } from '$lib/server/auth';
+import { ConfigError, loadConfig } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
+import { DataDirError } from '$lib/server/db/connect';
+import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
-import { loadIdentity } from '$lib/server/roles';
+import { withRequestContext } from '$lib/server/request-context';
+import { sessionIdFromCookie } from '$lib/server/session-cookie';
+import { identityForSession } from '$lib/server/sessions';
 
 export const init: ServerInit = async () => {
 	// Prerendering during `vite build` runs this hook too; the build must not touch a database.
 	if (building) return;
-	await migrateToLatest(getDb());
-	if (config.seedDemo && (await seedDemo())) console.log('Seeded the demo scenario.');
+	try {
+		const config = loadConfig();
+		authSecret();
+		await migrateToLatest(getDb());
+		if (config.seedDemo && (await seedDemo())) console.log('Seeded the demo scenario.');
+	} catch (e) {
+		// A setting or the data folder is wrong: one line that says which, not a stack trace.
+		if (e instanceof ConfigError || e instanceof DataDirError || (e instanceof Error && e.message.startsWith('AUTH_SECRET'))) {
+			console.error(`Patchwright cannot start. ${e.message}`);
+			process.exit(1);
+		}
+		throw e;
+	}
 };
 
-const identity: Handle = async ({ event, resolve }) => {
-	const session = await event.locals.auth();
-	const userId = session?.user?.id;
-	event.locals.user = userId ? await loadIdentity(userId) : null;
-	return resolve(event);
-};
+const RETRY_AFTER_SECONDS = 2;
 
-/** Everything the pages need ships with the app; nothing loads from another origin. */
-const securityHeaders: Handle = async ({ event, resolve }) => {
-	const response = await resolve(event);
-	response.headers.set('X-Content-Type-Options', 'nosniff');
-	response.headers.set('Referrer-Policy', 'same-origin');
-	response.headers.set('X-Frame-Options', 'DENY');
+/**
+ * Outermost: security headers on every answer (Auth.js's own included), no-store for the API and
+ * for anything served to a signed-in person, and 503 with Retry-After when the database was busy.
+ */
+const responseRules: Handle = async ({ event, resolve }) => {
+	let response = await resolve(event);
+	const isApi = isApiPath(event.url.pathname);
+	if (event.locals.databaseBusy) {
+		const message = 'The database is busy. Try again in a moment.';
+		response = isApi
+			? apiError(503, 'unavailable', message)
+			: new Response(`<!doctype html><meta charset="utf-8"><title>Busy · Patchwright</title><p>${message}</p>`, {
+					status: 503,
+					headers: { 'Content-Type': 'text/html; charset=utf-8' }
+				});
+		response.headers.set('Retry-After', String(RETRY_AFTER_SECONDS));
+	}
+	try {
+		setHeaders(response.headers, event.locals.user !== null || isApi || event.url.pathname.startsWith('/auth/'));
+	} catch {
+		// Some responses (Response.redirect) have immutable headers: copy them into one that can change.
+		response = new Response(response.body, response);
+		setHeaders(response.headers, true);
+	}
 	return response;
 };
 
-export const handle = sequence(apiGuard, authHandle, identity, securityHeaders);
+/** Everything the pages need ships with the app; nothing loads from another origin. */
+function setHeaders(headers: Headers, private_: boolean) {
+	headers.set('X-Content-Type-Options', 'nosniff');
+	headers.set('Referrer-Policy', 'same-origin');
+	headers.set('X-Frame-Options', 'DENY');
+	if (private_) headers.set('Cache-Control', 'no-store');
+}
+
+/**
+ * Who is asking, cheaply: only a request with a session cookie costs anything, and then one
+ * decode (remembered per cookie) and two prepared statements. Auth.js itself runs only for its
+ * own paths (/auth/...); the context it needs (client address) is set for those and for writes.
+ */
+const identity: Handle = async ({ event, resolve }) => {
+	event.locals.user = null;
+	event.locals.sessionId = null;
+	event.locals.databaseBusy = false;
+	if (building) return resolve(event);
+	const sessionId = await sessionIdFromCookie(event.cookies, authSecret);
+	if (sessionId) {
+		event.locals.user = await identityForSession(sessionId);
+		if (event.locals.user) event.locals.sessionId = sessionId;
+	}
+	const isAuthPath = event.url.pathname.startsWith('/auth/');
+	if (!isAuthPath && event.request.method === 'GET') return resolve(event);
+	return withRequestContext({ clientAddress: event.getClientAddress() }, () =>
+		isAuthPath ? authHandle({ event, resolve }) : resolve(event)
+	);
+};
+
+export const handle = sequence(responseRules, apiGuard, identity);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };
+	if (isDatabaseBusy(error)) {
+		event.locals.databaseBusy = true;
+		return { message: 'The database is busy. Try again in a moment.' };
+	}
 	const id = crypto.randomUUID().slice(0, 8);
 	console.error(`[error ${id}] ${event.request.method} ${event.url.pathname}`, error);
 	errorIds.set(event.request, id);

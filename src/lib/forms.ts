@@ -22,8 +22,22 @@ export const signInSchema = z.object({
 
 export const magicLinkSchema = z.object({ email });
 
+/**
+ * Control characters (Unicode general category Cc) and the explicit directional formatting
+ * characters of the Unicode Bidirectional Algorithm (UAX #9: ALM, LRM, RLM, LRE..RLO, LRI..PDI),
+ * which can make a name shown to others read differently from what it is.
+ */
+export const hiddenCharacters = /[\p{Cc}\u061C\u200E\u200F\u202A-\u202E\u2066-\u2069]/u;
+
+export const personName = z
+	.string({ error: 'Enter your name.' })
+	.trim()
+	.min(1, 'Enter your name.')
+	.max(120, 'Use at most 120 characters.')
+	.refine((s) => !hiddenCharacters.test(s), 'Use letters, spaces and punctuation only: no control or text-direction characters.');
+
 export const signUpSchema = z.object({
-	name: z.string({ error: 'Enter your name.' }).trim().min(1, 'Enter your name.').max(120, 'Use at most 120 characters.'),
+	name: personName,
 	email,
 	/** Optional: without one, the person signs in by e-mail link. */
 	password: z

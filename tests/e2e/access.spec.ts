@@ -15,6 +15,8 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/sign-in', { anonymous: 'ok', other: 'dash' }],
 	['/sign-up', { anonymous: 'ok', other: 'dash' }],
 	['/reset-password', 'ok'],
+	['/sign-up/check-email', 'ok'],
+	['/sign-up/confirm/not-a-real-token', 'ok'],
 	['/dashboard', { anonymous: 'in', other: 'ok' }],
 	['/trainer', { anonymous: 'in', trainer: 'ok', other: 403 }],
 	['/inspector', { anonymous: 'in', inspector: 'ok', other: 403 }],
@@ -134,6 +136,11 @@ test('the registrar grants a role, the person gains the page, and the audit log 
 	await page.goto(`/registrar/people?q=priya`);
 	await page.getByRole('button', { name: `Remove Trainer for ${person}` }).click();
 	await expect(page.getByRole('status')).toContainText('Removed trainer');
+	// Removing a role ends the person's sessions: whatever was open with it is closed.
+	const after = await priya.get('/trainer', { maxRedirects: 0 });
+	expect(after.status()).toBe(303);
+	expect(after.headers().location).toMatch(/^\/sign-in\?next=/);
+	await signInRequest(priya, person);
 	expect((await priya.get('/trainer', { maxRedirects: 0 })).status()).toBe(403);
 	await registrar.dispose();
 	await priya.dispose();
@@ -153,6 +160,28 @@ test('a role change with a forged person id is refused with a clear message', as
 	await registrar.dispose();
 });
 
+test('only a registrar can sign someone out everywhere', async () => {
+	for (const identity of ['trainer', 'companyAdmin', 'inspector'] as const) {
+		const client = await newRequest.newContext({ baseURL });
+		await signInRequest(client, who[identity]);
+		const response = await client.post('/registrar/people?/signOutEverywhere', {
+			form: { userId: crypto.randomUUID() },
+			headers: { origin: baseURL, accept: 'application/json' }
+		});
+		expect(response.status(), identity).toBe(403);
+		expect((await client.get('/api/v1/me')).status(), `${identity} still signed in`).toBe(200);
+		await client.dispose();
+	}
+	const registrar = await newRequest.newContext({ baseURL });
+	await signInRequest(registrar, who.registrar);
+	const forged = await registrar.post('/registrar/people?/signOutEverywhere', {
+		form: { userId: '__proto__' },
+		headers: { origin: baseURL, accept: 'application/json' }
+	});
+	expect((await forged.json()).status).toBe(400);
+	await registrar.dispose();
+});
+
 test('the registrar enrols a person in a course, recorded in the audit log', async ({ page }) => {
 	await page.context().addCookies(await (async () => {
 		const registrar = await newRequest.newContext({ baseURL });
@@ -169,7 +198,9 @@ test('the registrar enrols a person in a course, recorded in the audit log', asy
 		headers: { origin: baseURL, accept: 'text/html' },
 		maxRedirects: 0
 	});
-	expect(signUp.status()).toBe(302);
+	// A password account waits for its address to be confirmed.
+	expect(signUp.status()).toBe(303);
+	expect(signUp.headers().location).toBe('/sign-up/check-email');
 	await newcomer.dispose();
 
 	await page.goto(`/registrar/people?q=${encodeURIComponent(email)}`);

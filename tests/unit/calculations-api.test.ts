@@ -140,7 +140,7 @@ describe('POST /api/v1/calculations/[id]', () => {
 		const limited = await POST(event('groundwater-head', body, '198.51.100.1'));
 		expect(limited.status).toBe(429);
 		expect(Number(limited.headers.get('Retry-After'))).toBeGreaterThan(0);
-		expect((await limited.json()).error).toMatch(/Too many requests/);
+		expect((await limited.json()).error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/Too many requests/) });
 		expect((await GET(listingEvent('198.51.100.1'))).status).toBe(429);
 		expect((await POST(event('groundwater-head', body, '198.51.100.2'))).status).toBe(200);
 	});

@@ -57,11 +57,11 @@ describe('people, roles and companies', () => {
 	});
 
 	it('refuse a second account for the same address and check passwords', async () => {
-		await createUser({ email: 'a@example.test', name: 'A', password: 'correct horse battery' }, db);
+		await createUser({ email: 'a@example.test', name: 'A', password: 'correct horse battery', emailVerified: true }, db);
 		await expect(createUser({ email: 'A@example.test', name: 'B' }, db)).rejects.toBeInstanceOf(EmailTakenError);
-		expect(await checkPassword('a@example.test', 'correct horse battery', db)).toMatchObject({ email: 'a@example.test' });
-		expect(await checkPassword('a@example.test', 'wrong', db)).toBeNull();
-		expect(await checkPassword('nobody@example.test', 'wrong', db)).toBeNull();
+		expect(await checkPassword('a@example.test', 'correct horse battery', db)).toMatchObject({ outcome: 'ok', user: { email: 'a@example.test' } });
+		expect(await checkPassword('a@example.test', 'wrong', db)).toEqual({ outcome: 'wrong' });
+		expect(await checkPassword('nobody@example.test', 'wrong', db)).toEqual({ outcome: 'wrong' });
 	});
 
 	it('load company memberships into the identity', async () => {

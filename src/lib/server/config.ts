@@ -1,60 +1,116 @@
 import path from 'node:path';
+import { z } from 'zod';
 
 /**
- * Runtime settings, read from the environment (see .env.example) on each use, so tests
- * and scripts that set process.env see their values. Server-only.
+ * Runtime settings, parsed once from the environment (see .env.example) with zod. The server
+ * calls `loadConfig()` at start, so a bad value stops it with one line naming the setting;
+ * tests that change process.env call `reloadConfig()`. Server-only.
+ */
+
+const wholeNumber = (fallback: number, min = 1) =>
+	z
+		.string()
+		.optional()
+		.transform((s) => (s === undefined || s.trim() === '' ? String(fallback) : s.trim()))
+		.pipe(z.string().regex(/^\d+$/, `must be a whole number of at least ${min}`))
+		.transform(Number)
+		.pipe(z.number().int().min(min, `must be a whole number of at least ${min}`));
+
+const flag = z
+	.enum(['', '0', '1'], { error: 'must be 0 or 1' })
+	.optional()
+	.transform((s) => s === '1');
+
+const settings = z.object({
+	DATA_DIR: z.string().optional().transform((s) => path.resolve(s || './data')),
+	SMTP_URL: z
+		.string()
+		.optional()
+		.transform((s) => s || 'smtp://127.0.0.1:2525')
+		.pipe(z.string().regex(/^smtps?:\/\//, 'must start with smtp:// or smtps://')),
+	MAIL_FROM: z.string().optional().transform((s) => s || 'Patchwright <no-reply@patchwright.test>'),
+	FAKES: flag,
+	FAKE_INBOX_URL: z.string().optional(),
+	FAKE_PAYMENTS_URL: z.string().optional(),
+	ORIGIN: z.string().optional(),
+	PORT: z.string().optional(),
+	ISSUER_NAME: z.string().optional(),
+	SEED_DEMO: flag,
+	/** Sign-in attempts per address and per client address within the window. */
+	SIGN_IN_LIMIT_PER_EMAIL: wholeNumber(5),
+	SIGN_IN_LIMIT_PER_IP: wholeNumber(30),
+	/** Multiplies every other limit (API, sign-up, links): tests and the bench raise it. */
+	RATE_LIMIT_FACTOR: wholeNumber(1),
+	/** How long a write waits for another process's write lock before answering 503. */
+	DB_BUSY_TIMEOUT_MS: wholeNumber(100, 0),
+	/** A session ends after this long without a request, and in any case after SESSION_MAX_DAYS. */
+	SESSION_IDLE_HOURS: wholeNumber(12),
+	SESSION_MAX_DAYS: wholeNumber(7)
+});
+
+export type Config = ReturnType<typeof shape>;
+
+function shape(env: z.output<typeof settings>) {
+	return {
+		dataDir: env.DATA_DIR,
+		databaseFile: path.join(env.DATA_DIR, 'patchwright.sqlite'),
+		limitsFile: path.join(env.DATA_DIR, 'rate-limits.sqlite'),
+		smtpUrl: env.SMTP_URL,
+		mailFrom: env.MAIL_FROM,
+		/** The fake inbox page; shown in the navigation only when fakes are enabled. */
+		fakeInboxUrl: env.FAKES ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null,
+		/** The fake payment service's page (sessions, payments, events); shown only when fakes are enabled. */
+		fakePaymentsUrl: env.FAKES ? env.FAKE_PAYMENTS_URL || null : null,
+		/** Public origin for links that leave the app (QR codes, credential ids); adapter-node reads the same variable. */
+		origin: (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, ''),
+		/** The training provider that issues certificates. */
+		issuerName: env.ISSUER_NAME || 'Fenmoor Training Yard',
+		seedDemo: env.SEED_DEMO,
+		signInLimits: { perEmail: env.SIGN_IN_LIMIT_PER_EMAIL, perIp: env.SIGN_IN_LIMIT_PER_IP, windowMs: 15 * 60 * 1000 },
+		rateLimitFactor: env.RATE_LIMIT_FACTOR,
+		dbBusyTimeoutMs: env.DB_BUSY_TIMEOUT_MS,
+		sessionIdleMs: env.SESSION_IDLE_HOURS * 60 * 60 * 1000,
+		sessionMaxAgeSeconds: env.SESSION_MAX_DAYS * 24 * 60 * 60
+	};
+}
+
+export class ConfigError extends Error {}
+
+/** Parses the settings; throws a ConfigError whose message is one line naming the first bad setting. */
+export function parseConfig(env: Record<string, string | undefined>): Config {
+	const parsed = settings.safeParse(env);
+	if (!parsed.success) {
+		const issue = parsed.error.issues[0];
+		const name = String(issue.path[0]);
+		throw new ConfigError(`Setting ${name}=${JSON.stringify(env[name] ?? '')} ${issue.message}.`);
+	}
+	return shape(parsed.data);
+}
+
+let current: Config | undefined;
+
+export function loadConfig(): Config {
+	current ??= parseConfig(process.env);
+	return current;
+}
+
+/** For tests and scripts that change process.env after the first read. */
+export function reloadConfig(): Config {
+	current = undefined;
+	return loadConfig();
+}
+
+/** The settings, parsed on first use. */
+export const config: Config = new Proxy({} as Config, {
+	get: (_target, prop) => loadConfig()[prop as keyof Config]
+});
+
+/**
+ * The payment service, reached through the `stripe` SDK, read from the environment on each use.
+ * Leaving STRIPE_API_HOST unset talks to the real service; the local fake is only a different
+ * host, port and protocol.
  */
 const env = process.env;
-
-export const config = {
-	get dataDir() {
-		return path.resolve(env.DATA_DIR || './data');
-	},
-	get databaseFile() {
-		return path.join(this.dataDir, 'patchwright.sqlite');
-	},
-	get smtpUrl() {
-		return env.SMTP_URL || 'smtp://127.0.0.1:2525';
-	},
-	get mailFrom() {
-		return env.MAIL_FROM || 'Patchwright <no-reply@patchwright.test>';
-	},
-	/** The fake inbox page; shown in the navigation only when fakes are enabled. */
-	get fakeInboxUrl() {
-		return env.FAKES === '1' ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null;
-	},
-	/** The fake payment service's page (sessions, payments, events); shown only when fakes are enabled. */
-	get fakePaymentsUrl() {
-		return env.FAKES === '1' ? env.FAKE_PAYMENTS_URL || null : null;
-	},
-	/** Public origin for links that leave the app (QR codes, credential ids); adapter-node reads the same variable. */
-	get origin() {
-		return (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, '');
-	},
-	/** The training provider that issues certificates. */
-	get issuerName() {
-		return env.ISSUER_NAME || 'Fenmoor Training Yard';
-	},
-	get seedDemo() {
-		return env.SEED_DEMO === '1';
-	}
-};
-
-/** Sign-in attempt limits (per 15 minutes); tests raise the per-IP one since every test shares 127.0.0.1. */
-export const signInLimits = {
-	get perEmail() {
-		return Number(env.SIGN_IN_LIMIT_PER_EMAIL || 5);
-	},
-	get perIp() {
-		return Number(env.SIGN_IN_LIMIT_PER_IP || 30);
-	},
-	windowMs: 15 * 60 * 1000
-};
-
-/**
- * The payment service, reached through the `stripe` SDK. Leaving STRIPE_API_HOST unset talks
- * to the real service; the local fake is only a different host, port and protocol.
- */
 export const paymentSettings = {
 	get secretKey() {
 		return env.STRIPE_SECRET_KEY || '';
@@ -78,21 +134,5 @@ export const paymentSettings = {
 	/** How long a checkout stays open; the service accepts 30 minutes to 24 hours. */
 	get checkoutMinutes() {
 		return Math.min(24 * 60, Math.max(30, Number(env.CHECKOUT_EXPIRES_MINUTES || 60)));
-	}
-};
-
-const optionalCount = (value: string | undefined) => (value && /^\d+$/.test(value) ? Number(value) : undefined);
-
-/**
- * Requests per client address per window for the public APIs, by limiter bucket, when set;
- * unset, each API keeps its own default. The HTTP benchmark raises them so that it measures
- * the pipeline rather than 429 answers.
- */
-export const apiLimitOverrides: Record<string, number | undefined> = {
-	get 'calc-api'() {
-		return optionalCount(env.CALC_API_LIMIT_PER_MINUTE);
-	},
-	get 'practice-api'() {
-		return optionalCount(env.PRACTICE_API_LIMIT_PER_MINUTE);
 	}
 };

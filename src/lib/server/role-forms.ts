@@ -7,6 +7,10 @@ export const roleChangeSchema = z.object({
 	role: z.enum(platformRoles, { error: 'Choose trainer, inspector or registrar.' })
 });
 
+export const personSchema = z.object({
+	userId: z.uuid('Choose a person from the list.')
+});
+
 export const enrolSchema = z.object({
 	userId: z.uuid('Choose a person from the list.'),
 	course: z.string().refine((slug) => courses.some((c) => c.slug === slug), 'Choose a course from the list.')

@@ -1,6 +1,7 @@
 import type { Identity, PlatformRole, Role } from '$lib/roles';
 import { recordAudit } from './audit';
 import { db as defaultDb, inTransaction, type DB } from './db';
+import { endAllSessions } from './sessions';
 
 const roleOrder: Role[] = ['trainee', 'trainer', 'inspector', 'registrar'];
 
@@ -49,6 +50,8 @@ export async function revokeRole(actorId: string | null, userId: string, role: P
 			.executeTakeFirst();
 		if (Number(result.numDeletedRows) > 0) {
 			await recordAudit({ actorId, action: 'role.revoke', subjectType: 'user', subjectId: userId, detail: { role } }, trx);
+			// Whatever was opened or cached with the role in hand ends with it.
+			await endAllSessions(userId, 'role-removed', trx);
 		}
 	});
 }

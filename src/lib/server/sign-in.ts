@@ -1,24 +1,25 @@
 import type { RequestEvent } from '@sveltejs/kit';
 import { signIn } from './auth';
-import { signInLimits } from './config';
-import { clear, hit } from './rate-limit';
 
-/** Counts a sign-in attempt for both the address and the IP; returns a message when over the limit. */
-export function limitSignIn(event: RequestEvent, email: string): string | null {
-	const byEmail = hit('sign-in-email', email, signInLimits.perEmail, signInLimits.windowMs);
-	const byIp = hit('sign-in-ip', event.getClientAddress(), signInLimits.perIp, signInLimits.windowMs);
-	if (byEmail.ok && byIp.ok) return null;
-	const minutes = Math.max(1, Math.ceil(Math.max(byEmail.retryAfterSeconds, byIp.retryAfterSeconds) / 60));
-	return `Too many sign-in attempts. Wait ${minutes} minute${minutes === 1 ? '' : 's'} and try again, or reset your password.`;
-}
+const DEFAULT_NEXT = '/dashboard';
 
-export function forgetSignInAttempts(email: string) {
-	clear('sign-in-email', email);
-}
-
-/** Only paths on this site are followed after sign-in. */
-export function safeNext(next: string | null | undefined): string {
-	return next && next.startsWith('/') && !next.startsWith('//') ? next : '/dashboard';
+/**
+ * Where to go after signing in: only a page of this site. `next` is resolved the way a browser
+ * resolves a link (so `/\evil.example`, `/\t/evil.example`, `//evil.example` and
+ * `https:evil.example` all land on another origin and are refused); the result keeps only
+ * path, query and fragment.
+ */
+export function safeNext(next: string | null | undefined, origin: string): string {
+	if (!next) return DEFAULT_NEXT;
+	let url: URL;
+	try {
+		url = new URL(next, origin);
+	} catch {
+		return DEFAULT_NEXT;
+	}
+	if (url.origin !== new URL(origin).origin) return DEFAULT_NEXT;
+	const path = url.pathname + url.search + url.hash;
+	return path.startsWith('/') && !path.startsWith('//') ? path : DEFAULT_NEXT;
 }
 
 /**

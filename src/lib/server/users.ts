@@ -1,4 +1,5 @@
-import { db as defaultDb, type DB } from './db';
+import { db as defaultDb, inTransaction, type DB } from './db';
+import { isUniqueViolation } from './db/errors';
 import { hashPassword, verifyPassword } from './passwords';
 
 /** E-mail addresses are compared lower-cased and trimmed everywhere. */
@@ -41,27 +42,69 @@ export async function createUser(
 		emailVerified: input.emailVerified ? new Date().toISOString() : null,
 		image: null
 	};
-	await db.insertInto('User').values(user).execute();
+	try {
+		await db.insertInto('User').values(user).execute();
+	} catch (e) {
+		// Two requests for the same address at once (a double click): the second finds it taken.
+		if (isUniqueViolation(e)) throw new EmailTakenError();
+		throw e;
+	}
 	return { id: user.id, email: user.email, name: user.name };
 }
 
-/** Returns the user when the password matches, otherwise null (same answer for unknown e-mail). */
-export async function checkPassword(email: string, password: string, db: DB = defaultDb) {
+/**
+ * Sign-up. A new address gets an account whose password (if any) is unusable until the address
+ * is confirmed by an e-mailed link. An address with an account that was never confirmed is
+ * taken over by the newest sign-up, since nobody has proved it theirs yet; a confirmed one is
+ * refused with EmailTakenError. Racing requests for one address answer as one.
+ */
+export async function signUp(input: { email: string; name: string; password?: string }, db: DB = defaultDb) {
+	const email = normaliseEmail(input.email);
+	const passwordHash = input.password ? await hashPassword(input.password) : null;
+	for (let attempt = 0; ; attempt++) {
+		try {
+			return await inTransaction(db, async (trx) => {
+				const existing = await trx.selectFrom('User').select(['id', 'emailVerified']).where('email', '=', email).executeTakeFirst();
+				if (existing?.emailVerified) throw new EmailTakenError();
+				if (existing) {
+					await trx.updateTable('User').set({ name: input.name.trim(), passwordHash }).where('id', '=', existing.id).execute();
+					return { id: existing.id, email, isNew: false };
+				}
+				const id = crypto.randomUUID();
+				await trx.insertInto('User').values({ id, email, name: input.name.trim(), passwordHash, emailVerified: null, image: null }).execute();
+				return { id, email, isNew: true };
+			});
+		} catch (e) {
+			if (attempt === 0 && isUniqueViolation(e)) continue;
+			throw e;
+		}
+	}
+}
+
+export type PasswordCheck =
+	| { outcome: 'ok'; user: { id: string; email: string; name: string | null } }
+	| { outcome: 'wrong' }
+	| { outcome: 'unconfirmed' };
+
+/**
+ * Checks a password (the same work for an unknown address). A right password on an account
+ * whose address is not confirmed yet does not sign in.
+ */
+export async function checkPassword(email: string, password: string, db: DB = defaultDb): Promise<PasswordCheck> {
 	const row = await db
 		.selectFrom('User')
-		.select(['id', 'email', 'name', 'passwordHash'])
+		.select(['id', 'email', 'name', 'passwordHash', 'emailVerified'])
 		.where('email', '=', normaliseEmail(email))
 		.executeTakeFirst();
 	const ok = await verifyPassword(row?.passwordHash ?? null, password);
-	return ok && row ? { id: row.id, email: row.email, name: row.name } : null;
+	if (!ok || !row) return { outcome: 'wrong' };
+	if (!row.emailVerified) return { outcome: 'unconfirmed' };
+	return { outcome: 'ok', user: { id: row.id, email: row.email, name: row.name } };
 }
 
-export async function setPassword(userId: string, password: string, db: DB = defaultDb) {
-	await db
-		.updateTable('User')
-		.set({ passwordHash: await hashPassword(password) })
-		.where('id', '=', userId)
-		.execute();
+/** A password set before the address was confirmed is forgotten when the address is confirmed by a sign-in link. */
+export async function dropUnconfirmedPassword(userId: string, db: DB = defaultDb): Promise<void> {
+	await db.updateTable('User').set({ passwordHash: null }).where('id', '=', userId).where('emailVerified', 'is', null).execute();
 }
 
 export function searchUsers(query: string, db: DB = defaultDb) {

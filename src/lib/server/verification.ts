@@ -20,9 +20,9 @@ export const LOOKUP_LIMIT = {
 };
 
 /** Charges `count` lookups to an address; returns seconds to wait when over the limit, else 0. */
-export function chargeLookups(address: string, count = 1): number {
+export async function chargeLookups(address: string, count = 1): Promise<number> {
 	let verdict = { ok: true, retryAfterSeconds: 0 };
-	for (let i = 0; i < Math.max(1, count); i++) verdict = hit(LOOKUP_LIMIT.bucket, address, LOOKUP_LIMIT.perMinute, LOOKUP_LIMIT.windowMs);
+	for (let i = 0; i < Math.max(1, count); i++) verdict = await hit(LOOKUP_LIMIT.bucket, address, LOOKUP_LIMIT.perMinute, LOOKUP_LIMIT.windowMs);
 	return verdict.ok ? 0 : verdict.retryAfterSeconds;
 }
 

@@ -23,7 +23,7 @@ export const actions: Actions = {
 		}
 		if (!(file instanceof File) || file.size === 0) return fail(400, { uploadProblem: 'Choose a certificate PDF or a .jwt credential file.' });
 		if (file.size > MAX_UPLOAD_BYTES) return fail(400, { uploadProblem: 'That file is larger than any certificate we issue (2 MB).' });
-		const wait = chargeLookups(event.getClientAddress());
+		const wait = await chargeLookups(event.getClientAddress());
 		if (wait) return fail(429, { uploadProblem: `Too many checks from this address. Try again in ${wait} s.` });
 		const bytes = new Uint8Array(await file.arrayBuffer());
 		if (looksLikePdf(bytes)) return { verdict: await verifyPdf(bytes) };

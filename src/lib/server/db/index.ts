@@ -1,7 +1,6 @@
-import fs from 'node:fs';
 import type { Kysely } from 'kysely';
 import { config } from '../config';
-import { openDatabase } from './connect';
+import { ensureWritableDir, openDatabase } from './connect';
 import type { Database } from './schema';
 
 export type { Database } from './schema';
@@ -12,8 +11,8 @@ let instance: DB | undefined;
 /** The app's one database, opened on first use under DATA_DIR. */
 export function getDb(): DB {
 	if (!instance) {
-		fs.mkdirSync(config.dataDir, { recursive: true });
-		instance = openDatabase(config.databaseFile);
+		ensureWritableDir(config.dataDir);
+		instance = openDatabase(config.databaseFile, config.dbBusyTimeoutMs);
 	}
 	return instance;
 }
@@ -30,6 +29,8 @@ export const db: DB = new Proxy({} as DB, {
 /**
  * Runs `work` in a transaction, joining the caller's when `db` already is one, so domain
  * functions compose (a seed or a larger change can wrap several of them atomically).
+ * The transaction begins IMMEDIATE (see connect.ts): when another process holds the write
+ * lock past the busy timeout it throws an error for which `isDatabaseBusy` is true.
  */
 export function inTransaction<T>(db: DB, work: (trx: DB) => Promise<T>): Promise<T> {
 	return db.isTransaction ? work(db) : db.transaction().execute(work);

@@ -72,6 +72,26 @@ export interface PasswordResetTable {
 	used_at: string | null;
 }
 
+/** A signed-in session; the session cookie carries its id. Ended sessions keep their row for the record. */
+export interface UserSessionTable {
+	id: string;
+	user_id: string;
+	created_at: string;
+	last_seen_at: string;
+	/** The latest moment it may be used, however active (SESSION_MAX_DAYS after sign-in). */
+	expires_at: string;
+	ended_at: string | null;
+	ended_why: 'sign-out' | 'password-reset' | 'role-removed' | 'signed-out-everywhere' | null;
+}
+
+/** A link that confirms the address of an account created with a password (only the hash is kept). */
+export interface AddressConfirmationTable {
+	token_hash: string;
+	user_id: string;
+	expires_at: string;
+	used_at: string | null;
+}
+
 export interface AuditLogTable {
 	id: Generated<number>;
 	at: string;
@@ -248,6 +268,8 @@ export interface Database {
 	company: CompanyTable;
 	membership: MembershipTable;
 	password_reset: PasswordResetTable;
+	user_session: UserSessionTable;
+	address_confirmation: AddressConfirmationTable;
 	audit_log: AuditLogTable;
 	enrolment: EnrolmentTable;
 	lesson_progress: LessonProgressTable;

@@ -6,8 +6,10 @@ import { requireUser } from '$lib/server/authz';
 import { failWith, parseForm } from '$lib/server/form';
 import { acceptInvitation, findInvitation } from '$lib/server/invitations';
 import { recordAudit } from '$lib/server/audit';
-import { forgetSignInAttempts, limitSignIn, startSignIn } from '$lib/server/sign-in';
-import { checkPassword, createUser, EmailTakenError, findUserByEmail } from '$lib/server/users';
+import { startSignIn } from '$lib/server/sign-in';
+import { verifySignIn, waitMinutes } from '$lib/server/sign-in-checks';
+import { requestContext } from '$lib/server/request-context';
+import { createUser, EmailTakenError, findUserByEmail } from '$lib/server/users';
 import type { Actions, PageServerLoad } from './$types';
 
 /**
@@ -72,12 +74,12 @@ export const actions: Actions = {
 		if (invitation.unusable) return failWith(409, null, invitation.unusable);
 		const parsed = await parseForm(event.request, signInHere);
 		if (!parsed.ok) return parsed.failure;
-		const limited = limitSignIn(event, invitation.email);
-		if (limited) return failWith(429, parsed.form, limited);
-		const user = await checkPassword(invitation.email, parsed.data.password);
-		if (!user) return failWith(400, parsed.form, 'That password does not match the account.', { password: 'Check the password, or reset it from the sign-in page.' });
-		forgetSignInAttempts(invitation.email);
-		const result = await acceptInvitation(event.params.token, user.id);
+		const verdict = await verifySignIn(invitation.email, parsed.data.password, requestContext());
+		if (verdict.outcome === 'limited') return failWith(429, parsed.form, `Too many sign-in attempts. Wait ${waitMinutes(verdict.retryAfterSeconds)} and try again, or reset your password.`);
+		// An account whose address was never confirmed: this link confirms it, but only with the right password.
+		if (verdict.outcome === 'wrong') return failWith(400, parsed.form, 'That password does not match the account.', { password: 'Check the password, or reset it from the sign-in page.' });
+		const userId = verdict.outcome === 'ok' ? verdict.user.id : (await findUserByEmail(invitation.email))!.id;
+		const result = await acceptInvitation(event.params.token, userId);
 		if (!result.ok) return failWith(409, parsed.form, result.message);
 		return startSignIn(event, { providerId: 'credentials', email: invitation.email, password: parsed.data.password, redirectTo: `/courses/${result.courseSlug}?welcome=1` });
 	}

@@ -1,7 +1,8 @@
 import { error } from '@sveltejs/kit';
 import { requireRole } from '$lib/server/authz';
 import { failWith, parseForm } from '$lib/server/form';
-import { enrolSchema, roleChangeSchema, trainerScopeSchema } from '$lib/server/role-forms';
+import { enrolSchema, personSchema, roleChangeSchema, trainerScopeSchema } from '$lib/server/role-forms';
+import { signOutEverywhere } from '$lib/server/sessions';
 import { enrol, enrolmentsByUser } from '$lib/server/enrolments';
 import { courses } from '$lib/content';
 import { listCompanies } from '$lib/server/companies';
@@ -41,6 +42,15 @@ export const actions: Actions = {
 		if (!(await loadIdentity(parsed.data.userId))) error(404, 'No such person.');
 		await enrol(me.id, parsed.data.userId, parsed.data.course, 'registrar');
 		return { done: 'Enrolled.' };
+	},
+	signOutEverywhere: async (event) => {
+		const me = requireRole(event, 'registrar');
+		const parsed = await parseForm(event.request, personSchema);
+		if (!parsed.ok) return parsed.failure;
+		const person = await loadIdentity(parsed.data.userId);
+		if (!person) error(404, 'No such person.');
+		const ended = await signOutEverywhere(me.id, person.id);
+		return { done: `Signed ${person.email} out everywhere (${ended} session${ended === 1 ? '' : 's'} ended).` };
 	},
 	/** Whose crew a trainer works with: everyone, or one company's crew only. */
 	trainerScope: async (event) => {

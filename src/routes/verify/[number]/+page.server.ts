@@ -6,7 +6,7 @@ import type { PageServerLoad } from './$types';
 
 /** The answer page a certificate's QR code opens. No sign-in; limited per address like the API. */
 export const load: PageServerLoad = async (event) => {
-	const wait = chargeLookups(event.getClientAddress());
+	const wait = await chargeLookups(event.getClientAddress());
 	if (wait) error(429, `Too many checks from this address. Try again in ${wait} s.`);
 	event.setHeaders({ 'Cache-Control': 'no-store' });
 	const input = event.params.number.slice(0, 64);

@@ -6,7 +6,7 @@ import { refuseIfLimited } from '$lib/server/rate-limit';
 
 /** Runs one calculator on {"inputs": {...}}; no sign-in, limited per client address. */
 export const POST: RequestHandler = async (event) => {
-	const refused = refuseIfLimited(event, CALCULATION_API_LIMIT);
+	const refused = await refuseIfLimited(event, CALCULATION_API_LIMIT);
 	if (refused) return refused;
 	const read = await readJsonText(event.request);
 	if (!read.ok) return read.response;

@@ -6,7 +6,7 @@ const notFound = { error: { code: 'not_found', message: 'No certificate has this
 
 /** One certificate's public status. No sign-in; limited per address; 404 looks the same for malformed and unknown numbers. */
 export const GET: RequestHandler = async (event) => {
-	const wait = chargeLookups(event.getClientAddress());
+	const wait = await chargeLookups(event.getClientAddress());
 	if (wait) return json({ error: { code: 'rate_limited', message: `Too many look-ups from this address. Try again in ${wait} s.` } }, { status: 429, headers: { 'Retry-After': String(wait) } });
 	const found = await lookUp(event.params.number);
 	const headers = { 'Cache-Control': 'no-store' };

@@ -35,13 +35,13 @@ export const POST: RequestHandler = async (event) => {
 
 	if (type === 'application/pdf') {
 		if (!looksLikePdf(bytes)) return problem(400, 'not_pdf', 'The body is not a PDF file.');
-		const wait = chargeLookups(event.getClientAddress());
+		const wait = await chargeLookups(event.getClientAddress());
 		if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
 		return json(fileAnswer(await verifyPdf(bytes)));
 	}
 	const text = new TextDecoder().decode(bytes);
 	if (type === 'application/jwt') {
-		const wait = chargeLookups(event.getClientAddress());
+		const wait = await chargeLookups(event.getClientAddress());
 		if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
 		return json(fileAnswer(await verifyJwt(text)));
 	}
@@ -54,7 +54,7 @@ export const POST: RequestHandler = async (event) => {
 	}
 	const asJwt = jwtBody.safeParse(body);
 	if (asJwt.success) {
-		const wait = chargeLookups(event.getClientAddress());
+		const wait = await chargeLookups(event.getClientAddress());
 		if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
 		return json(fileAnswer(await verifyJwt(asJwt.data.jwt)));
 	}
@@ -63,7 +63,7 @@ export const POST: RequestHandler = async (event) => {
 		const fields = Object.fromEntries(asNumbers.error.issues.map((i) => [i.path.join('.') || 'body', i.message]));
 		return problem(400, 'invalid_body', 'Send {"numbers": [...]} (up to 200) or {"jwt": "..."}.', fields);
 	}
-	const wait = chargeLookups(event.getClientAddress(), asNumbers.data.numbers.length);
+	const wait = await chargeLookups(event.getClientAddress(), asNumbers.data.numbers.length);
 	if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
 	return json({ results: (await checkNumbers(asNumbers.data.numbers)).map(apiCrewRow) });
 };

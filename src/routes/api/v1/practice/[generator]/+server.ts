@@ -4,8 +4,8 @@ import type { RequestHandler } from './$types';
 import { refuseIfLimited } from '$lib/server/rate-limit';
 
 /** One problem for ?seed=N (the same seed, the same problem), without its answer. */
-export const GET: RequestHandler = (event) => {
-	const refused = refuseIfLimited(event, PRACTICE_API_LIMIT);
+export const GET: RequestHandler = async (event) => {
+	const refused = await refuseIfLimited(event, PRACTICE_API_LIMIT);
 	if (refused) return refused;
 	const { status, body } = answerProblem(event.params.generator, event.url.searchParams.get('seed'));
 	return json(body, { status });

@@ -6,7 +6,7 @@ import { refuseIfLimited } from '$lib/server/rate-limit';
 
 /** Checks {"seed": N, "answer": {...}}: right or not, the expected answer and the worked steps. Practice never counts. */
 export const POST: RequestHandler = async (event) => {
-	const refused = refuseIfLimited(event, PRACTICE_API_LIMIT);
+	const refused = await refuseIfLimited(event, PRACTICE_API_LIMIT);
 	if (refused) return refused;
 	const read = await readJsonText(event.request);
 	if (!read.ok) return read.response;
