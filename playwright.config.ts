@@ -7,9 +7,13 @@ import { defineConfig, devices } from '@playwright/test';
 const PORT = Number(process.env.E2E_PORT || 4173);
 const MAIL_SMTP_PORT = Number(process.env.E2E_SMTP_PORT || 2626);
 const MAIL_HTTP_PORT = Number(process.env.E2E_MAIL_HTTP_PORT || 8126);
+const PAY_PORT = Number(process.env.E2E_PAY_PORT || 12117);
+const PAY_SECRET_KEY = 'sk_test_e2e_only';
+const PAY_WEBHOOK_SECRET = 'whsec_e2e_only_not_for_production';
 const artifacts = 'tests/.artifacts';
 export const baseURL = `http://localhost:${PORT}`;
 export const inboxURL = `http://127.0.0.1:${MAIL_HTTP_PORT}/`;
+export const paymentsURL = `http://127.0.0.1:${PAY_PORT}/`;
 
 export default defineConfig({
 	testDir: 'tests/e2e',
@@ -31,10 +35,19 @@ export default defineConfig({
 	projects: [{ name: 'chromium', use: { ...devices['Desktop Chrome'], channel: undefined } }],
 	webServer: [
 		{
-			command: `node --import jiti/register scripts/fakes.ts`,
 			url: inboxURL,
 			reuseExistingServer: false,
-			env: { DATA_DIR: `${artifacts}/e2e-fakes`, MAIL_SMTP_PORT: String(MAIL_SMTP_PORT), MAIL_HTTP_PORT: String(MAIL_HTTP_PORT) },
+			command: `rm -rf ${artifacts}/e2e-fakes && node --import jiti/register scripts/fakes.ts`,
+			env: {
+				DATA_DIR: `${artifacts}/e2e-fakes`,
+				MAIL_SMTP_PORT: String(MAIL_SMTP_PORT),
+				MAIL_HTTP_PORT: String(MAIL_HTTP_PORT),
+				PAY_PORT: String(PAY_PORT),
+				PAY_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/v1/payments/webhook`,
+				PAY_WEBHOOK_SECRET,
+				PAY_SECRET_KEY,
+				PAY_RETRY_BASE_MS: '500'
+			},
 			stdout: 'ignore'
 		},
 		{
@@ -50,6 +63,12 @@ export default defineConfig({
 				SMTP_URL: `smtp://127.0.0.1:${MAIL_SMTP_PORT}`,
 				FAKES: '1',
 				FAKE_INBOX_URL: inboxURL,
+				STRIPE_SECRET_KEY: PAY_SECRET_KEY,
+				STRIPE_WEBHOOK_SECRET: PAY_WEBHOOK_SECRET,
+				STRIPE_API_HOST: '127.0.0.1',
+				STRIPE_API_PORT: String(PAY_PORT),
+				STRIPE_API_PROTOCOL: 'http',
+				FAKE_PAYMENTS_URL: paymentsURL,
 				SEED_DEMO: '1',
 				SIGN_IN_LIMIT_PER_IP: '100000',
 				// Evidence uploads: 8 files of 12 MB plus the form (the upload route enforces its own caps).

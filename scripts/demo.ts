@@ -9,6 +9,7 @@ import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import { startMailFake } from '../fakes/mail';
+import { startPaymentsFake } from '../fakes/payments';
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../src/lib/server/demo-people';
 
 const root = path.resolve(import.meta.dirname, '..');
@@ -45,6 +46,19 @@ if (!fs.existsSync(secretFile)) fs.writeFileSync(secretFile, randomBytes(32).toS
 
 const mail = await startMailFake({ smtpPort: 0, httpPort: 0, dir: path.join(dataDir, 'mail') });
 
+// The payments fake, with a webhook secret per data folder; the app reaches it through the SDK settings only.
+const webhookSecretFile = path.join(dataDir, 'payments-webhook-secret');
+if (!fs.existsSync(webhookSecretFile)) fs.writeFileSync(webhookSecretFile, `whsec_${randomBytes(24).toString('base64url')}`, { mode: 0o600 });
+const webhookSecret = fs.readFileSync(webhookSecretFile, 'utf8');
+const paymentsKey = 'sk_test_patchwright_demo';
+const payments = await startPaymentsFake({
+	port: Number(process.env.PAY_PORT || 0),
+	dir: path.join(dataDir, 'payments'),
+	webhookUrl: `http://127.0.0.1:${port}/api/v1/payments/webhook`,
+	webhookSecret,
+	secretKey: paymentsKey
+});
+
 const app = spawn(process.execPath, [buildDir], {
 	cwd: root,
 	stdio: ['ignore', 'pipe', 'inherit'],
@@ -58,6 +72,12 @@ const app = spawn(process.execPath, [buildDir], {
 		SMTP_URL: mail.smtpUrl,
 		FAKES: '1',
 		FAKE_INBOX_URL: mail.inboxUrl,
+		STRIPE_SECRET_KEY: paymentsKey,
+		STRIPE_WEBHOOK_SECRET: webhookSecret,
+		STRIPE_API_HOST: payments.host,
+		STRIPE_API_PORT: String(payments.port),
+		STRIPE_API_PROTOCOL: 'http',
+		FAKE_PAYMENTS_URL: payments.url,
 		SEED_DEMO: '1',
 		// Evidence uploads: 8 files of 12 MB plus the form (the upload route enforces its own caps).
 		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '100M'
@@ -75,6 +95,7 @@ app.stdout!.on('data', (chunk: Buffer) => {
 Patchwright demo is running.
   App:          ${url}
   Local inbox:  ${mail.inboxUrl}   (every e-mail the app sends)
+  Payments:     ${payments.url}   (local test payment service; card 4242 4242 4242 4242 pays, 4000 0000 0000 0002 is declined)
   Calculators:  ${url}/tools
   Data folder:  ${dataDir}
 
@@ -88,11 +109,13 @@ Press Ctrl+C to stop.`);
 const stop = async () => {
 	app.kill('SIGTERM');
 	await mail.close();
+	await payments.close();
 	process.exit(0);
 };
 process.on('SIGINT', stop);
 process.on('SIGTERM', stop);
 app.on('exit', async (code) => {
 	await mail.close();
+	await payments.close();
 	process.exit(code ?? 0);
 });

@@ -6,13 +6,13 @@
  */
 export const capabilities = {
 	/** Trainers record practical sign-offs against each criterion. */
-	signOffs: false,
+	signOffs: true,
 	/** Company admins buy seats and assign them; a person buys one seat. */
-	seats: false,
+	seats: true,
 	/** Certificates are issued (PDF and signed credential). */
-	certificates: false,
+	certificates: true,
 	/** Anyone checks a certificate by number, QR link or PDF. */
-	verification: false
+	verification: true
 };
 
 export type Capability = keyof typeof capabilities;

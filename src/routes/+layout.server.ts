@@ -3,5 +3,6 @@ import type { LayoutServerLoad } from './$types';
 
 export const load: LayoutServerLoad = async ({ locals }) => ({
 	user: locals.user,
-	fakeInboxUrl: config.fakeInboxUrl
+	fakeInboxUrl: config.fakeInboxUrl,
+	fakePaymentsUrl: config.fakePaymentsUrl
 });

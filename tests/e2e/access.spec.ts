@@ -5,7 +5,8 @@ import { baseURL, signInRequest, who, type Identity } from './support';
  * Who may open what. `ok` is 200; `in` is a redirect to sign-in; a number is that status.
  * Every page and API route that exists so far is listed; later features add rows.
  */
-type Expect = 'ok' | 'in' | 'dash' | 401 | 403 | 404;
+type Expect = 'ok' | 'in' | 'dash' | 401 | 403 | 404 | 405;
+const NO_ID = '00000000-0000-4000-8000-000000000000';
 const identities: Identity[] = ['anonymous', 'trainee', 'trainer', 'companyTrainer', 'companyAdmin', 'inspector', 'registrar'];
 
 const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expect }][] = [
@@ -78,10 +79,26 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/issuer', 'ok'],
 	['/contexts/ob/v3p0/context-3.0.3.json', 'ok'],
 	['/contexts/ob/v3p0/no-such.json', 404],
-	['/certificates/0000-0000-0000-0000/a4.pdf', { anonymous: 'in', other: 404 }]
+	['/certificates/0000-0000-0000-0000/a4.pdf', { anonymous: 'in', other: 404 }],
+	['/courses/point-repair-installer/buy', { anonymous: 'in', other: 'ok' }],
+	['/courses/no-such-course/buy', { anonymous: 'in', other: 404 }],
+	['/orders', { anonymous: 'in', other: 'ok' }],
+	[`/orders/${NO_ID}`, { anonymous: 'in', other: 404 }],
+	['/orders/not-an-id', { anonymous: 'in', other: 404 }],
+	[`/orders/${NO_ID}/cancel`, { anonymous: 'in', other: 404 }],
+	[`/orders/${NO_ID}/receipt`, { anonymous: 'in', other: 404 }],
+	[`/orders/${NO_ID}/receipt.pdf`, { anonymous: 'in', other: 404 }],
+	['/company/seats', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
+	['/registrar/orders', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	[`/registrar/orders/${NO_ID}`, { anonymous: 'in', registrar: 404, other: 403 }],
+	['/invitations/no-such-invitation-token-000000', 404],
+	['/invitations/short', 404],
+	[`/api/v1/orders/${NO_ID}`, { anonymous: 401, other: 404 }],
+	[`/api/v1/companies/${NO_ID}/seats`, { anonymous: 401, other: 403 }],
+	['/api/v1/payments/webhook', 405]
 ];
 
-const codes: Record<number, string> = { 400: 'bad_request', 401: 'unauthorized', 403: 'forbidden', 404: 'not_found', 409: 'conflict', 413: 'payload_too_large', 415: 'unsupported_media_type' };
+const codes: Record<number, string> = { 400: 'bad_request', 401: 'unauthorized', 403: 'forbidden', 404: 'not_found', 405: 'method_not_allowed', 409: 'conflict', 413: 'payload_too_large', 415: 'unsupported_media_type' };
 
 /** Every API refusal is JSON in the one shape: {error: {code, message}}, never HTML, never cached. */
 async function expectApiError(response: APIResponse, status: number, label: string) {

@@ -162,8 +162,11 @@ export async function readJson<S extends z.ZodType>(
 	return { ok: true, data: parsed.data };
 }
 
-/** Routes that compute and store nothing: other programs may POST to them from anywhere. */
-export const ORIGIN_FREE = new Set(['/api/v1/calculations/[id]', '/api/v1/practice/[generator]/check']);
+/**
+ * Routes other programs may POST to from anywhere: pure computations, and the payment
+ * service's webhook, which is authenticated by its signature over the body instead.
+ */
+export const ORIGIN_FREE = new Set(['/api/v1/calculations/[id]', '/api/v1/practice/[generator]/check', '/api/v1/payments/webhook']);
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 

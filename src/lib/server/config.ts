@@ -31,6 +31,10 @@ const settings = z.object({
 	MAIL_FROM: z.string().optional().transform((s) => s || 'Patchwright <no-reply@patchwright.test>'),
 	FAKES: flag,
 	FAKE_INBOX_URL: z.string().optional(),
+	FAKE_PAYMENTS_URL: z.string().optional(),
+	ORIGIN: z.string().optional(),
+	PORT: z.string().optional(),
+	ISSUER_NAME: z.string().optional(),
 	SEED_DEMO: flag,
 	/** Sign-in attempts per address and per client address within the window. */
 	SIGN_IN_LIMIT_PER_EMAIL: wholeNumber(5),
@@ -62,6 +66,12 @@ function shape(env: z.output<typeof settings>) {
 		mailFrom: env.MAIL_FROM,
 		/** The fake inbox page; shown in the navigation only when fakes are enabled. */
 		fakeInboxUrl: env.FAKES ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null,
+		/** The fake payment service's page (sessions, payments, events); shown only when fakes are enabled. */
+		fakePaymentsUrl: env.FAKES ? env.FAKE_PAYMENTS_URL || null : null,
+		/** Public origin for links that leave the app (QR codes, credential ids); adapter-node reads the same variable. */
+		origin: (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, ''),
+		/** The training provider that issues certificates. */
+		issuerName: env.ISSUER_NAME || 'Fenmoor Training Yard',
 		seedDemo: env.SEED_DEMO,
 		signInLimits: { perEmail: env.SIGN_IN_LIMIT_PER_EMAIL, perIp: env.SIGN_IN_LIMIT_PER_IP, windowMs: 15 * 60 * 1000 },
 		rateLimitFactor: env.RATE_LIMIT_FACTOR,
@@ -104,3 +114,35 @@ export function reloadConfig(): Config {
 export const config: Config = new Proxy({} as Config, {
 	get: (_target, prop) => loadConfig()[prop as keyof Config]
 });
+
+/**
+ * The payment service, reached through the `stripe` SDK, read from the environment on each use.
+ * Leaving STRIPE_API_HOST unset talks to the real service; the local fake is only a different
+ * host, port and protocol.
+ */
+const env = process.env;
+export const paymentSettings = {
+	get secretKey() {
+		return env.STRIPE_SECRET_KEY || '';
+	},
+	get webhookSecret() {
+		return env.STRIPE_WEBHOOK_SECRET || '';
+	},
+	get apiHost() {
+		return env.STRIPE_API_HOST || undefined;
+	},
+	get apiPort() {
+		return env.STRIPE_API_PORT ? Number(env.STRIPE_API_PORT) : undefined;
+	},
+	get apiProtocol(): 'http' | 'https' | undefined {
+		return env.STRIPE_API_PROTOCOL === 'http' ? 'http' : env.STRIPE_API_PROTOCOL === 'https' ? 'https' : undefined;
+	},
+	/** Webhook events signed longer ago than this are refused (the SDK's default is 300 s). */
+	get webhookToleranceSeconds() {
+		return Number(env.STRIPE_WEBHOOK_TOLERANCE_SECONDS || 300);
+	},
+	/** How long a checkout stays open; the service accepts 30 minutes to 24 hours. */
+	get checkoutMinutes() {
+		return Math.min(24 * 60, Math.max(30, Number(env.CHECKOUT_EXPIRES_MINUTES || 60)));
+	}
+};

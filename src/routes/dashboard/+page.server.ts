@@ -1,5 +1,7 @@
 import { requireUser } from '$lib/server/authz';
 import { crewProgress, registrarCounts, traineeStandings, trainerDesk } from '$lib/server/dashboard';
+import { listOrdersFor, orderView } from '$lib/server/orders';
+import { seatLedger } from '$lib/server/seats';
 import { listCertificatesOf } from '$lib/server/certificates';
 import { config } from '$lib/server/config';
 import { recentCrewChecks } from '$lib/server/crew-checks';
@@ -11,7 +13,7 @@ export const load: PageServerLoad = async (event) => {
 	const user = requireUser(event);
 	const adminOf = user.companies.filter((c) => c.role === 'admin');
 	const staff = user.roles.includes('trainer') || user.roles.includes('registrar');
-	const [standings, companies, desk, practicalQueue, counts, certificates, recentChecks] = await Promise.all([
+	const [standings, companies, desk, practicalQueue, counts, certificates, recentChecks, orders] = await Promise.all([
 		traineeStandings(user.id),
 		Promise.all(
 			adminOf.map(async (c) => {
@@ -21,7 +23,8 @@ export const load: PageServerLoad = async (event) => {
 					name: c.name,
 					memberCount: crew.length,
 					enrolledCount: crew.filter((m) => m.courses.length > 0).length,
-					passedCount: crew.reduce((n, m) => n + m.courses.filter((k) => k.testPassed).length, 0)
+					passedCount: crew.reduce((n, m) => n + m.courses.filter((k) => k.testPassed).length, 0),
+					seats: await seatLedger(c.id)
 				};
 			})
 		),
@@ -29,7 +32,8 @@ export const load: PageServerLoad = async (event) => {
 		user.roles.includes('trainer') ? queueCount(user.id) : null,
 		user.roles.includes('registrar') ? registrarCounts() : null,
 		listCertificatesOf(user.id),
-		user.roles.includes('inspector') ? recentCrewChecks(user.id, 3) : []
+		user.roles.includes('inspector') ? recentCrewChecks(user.id, 3) : [],
+		listOrdersFor(user).then((o) => o.slice(0, 3).map(orderView))
 	]);
-	return { standings, companies, desk, practicalQueue, counts, certificates, origin: config.origin, recentChecks };
+	return { standings, companies, desk, practicalQueue, counts, certificates, origin: config.origin, recentChecks, orders };
 };

@@ -297,6 +297,10 @@ export interface Database {
 	test_attempt: TestAttemptTable;
 	test_answer: TestAnswerTable;
 	test_item_result: TestItemResultTable;
+	course_order: CourseOrderTable;
+	seat: SeatTable;
+	invitation: InvitationTable;
+	payment_event: PaymentEventTable;
 	practical_submission: PracticalSubmissionTable;
 	evidence_file: EvidenceFileTable;
 	practical_assessment: PracticalAssessmentTable;
@@ -312,3 +316,67 @@ export type UserUpdate = Updateable<UserTable>;
 export type Company = Selectable<CompanyTable>;
 export type Membership = Selectable<MembershipTable>;
 export type AuditEntry = Selectable<AuditLogTable>;
+
+export type OrderState = 'open' | 'paid' | 'expired' | 'cancelled' | 'refunded' | 'partly refunded';
+
+/** A purchase of seats for one course. Amounts in the currency's minor unit. */
+export interface CourseOrderTable {
+	id: string;
+	/** Shown to people and on the receipt. */
+	number: string;
+	buyer_id: string;
+	/** Null when a person buys a seat for themselves. */
+	company_id: string | null;
+	course_slug: string;
+	quantity: number;
+	unit_amount: number;
+	total_amount: number;
+	/** ISO 4217, upper case. */
+	currency: string;
+	state: OrderState;
+	checkout_session_id: string | null;
+	checkout_url: string | null;
+	payment_intent_id: string | null;
+	refunded_quantity: number;
+	refunded_amount: number;
+	created_at: string;
+	paid_at: string | null;
+	updated_at: string;
+}
+
+/** One paid place on a course; assigned to a holder, in use from the first paid lesson opened. */
+export interface SeatTable {
+	id: string;
+	order_id: string;
+	company_id: string | null;
+	course_slug: string;
+	holder_id: string | null;
+	assigned_at: string | null;
+	used_at: string | null;
+	refunded_at: string | null;
+	created_at: string;
+}
+
+/** A single-use invitation to take a company's seat; only the token's SHA-256 is stored. */
+export interface InvitationTable {
+	id: string;
+	token_hash: string;
+	company_id: string;
+	course_slug: string;
+	email: string;
+	name: string;
+	invited_by: string | null;
+	created_at: string;
+	expires_at: string;
+	accepted_at: string | null;
+	accepted_by: string | null;
+	withdrawn_at: string | null;
+}
+
+/** A payment-service webhook event already applied (or deliberately ignored). */
+export interface PaymentEventTable {
+	id: string;
+	type: string;
+	received_at: string;
+	outcome: string;
+}

@@ -3,10 +3,11 @@ import { courses, getCourse } from '$lib/content';
 import { isEnrolled } from '$lib/server/enrolments';
 import { getCourseProgress } from '$lib/server/progress';
 import { testStatus } from '$lib/server/attempts';
+import { readerLocale } from '$lib/server/locale';
 import type { PageServerLoad } from './$types';
 
 /** A course's outline, what its certificate proves, price and validity; progress when enrolled. */
-export const load: PageServerLoad = async ({ params, locals }) => {
+export const load: PageServerLoad = async ({ params, locals, request }) => {
 	const course = getCourse(params.course);
 	if (!course) error(404, 'No such course');
 	const enrolled = locals.user ? await isEnrolled(locals.user.id, course.slug) : false;
@@ -19,6 +20,8 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 		},
 		outline: lessons.map(({ slug, title, order, minutes, preview, href }) => ({ slug, title, order, minutes, preview, href })),
 		enrolled,
+		locale: readerLocale(request.headers.get('accept-language')),
+		canBuyForCompany: !!locals.user?.companies.some((c) => c.role === 'admin'),
 		progress: enrolled ? await getCourseProgress(locals.user!.id, course) : null,
 		test: enrolled ? await summariseTest(locals.user!.id, course.slug) : null
 	};

@@ -4,6 +4,7 @@ import { requireUser } from '$lib/server/authz';
 import { hasRole } from '$lib/roles';
 import { lessonHtml } from '$lib/server/lesson-html';
 import { getCourseProgress, readingState } from '$lib/server/progress';
+import { markSeatInUse } from '$lib/server/seats';
 import type { PageServerLoad } from './$types';
 
 /**
@@ -33,6 +34,8 @@ export const load: PageServerLoad = async (event) => {
 	]);
 	// A full page gets the body from the lessonBody hook; client-side navigation gets it here.
 	if (!event.isDataRequest) locals.lessonBody = body.html;
+	// A seat counts as used from the first lesson opened beyond the free previews.
+	if (enrolled && !lesson.preview) await markSeatInUse(locals.user!.id, course.slug);
 	return {
 		course: { slug: course.slug, title: course.title, code: course.code },
 		lesson: { slug: lesson.slug, title: lesson.title, order: lesson.order, minutes: lesson.minutes, preview: lesson.preview, objectives: lesson.objectives },
