@@ -32,9 +32,6 @@ const settings = z.object({
 	FAKES: flag,
 	FAKE_INBOX_URL: z.string().optional(),
 	FAKE_PAYMENTS_URL: z.string().optional(),
-	ORIGIN: z.string().optional(),
-	PORT: z.string().optional(),
-	ISSUER_NAME: z.string().optional(),
 	SEED_DEMO: flag,
 	/** Sign-in attempts per address and per client address within the window. */
 	SIGN_IN_LIMIT_PER_EMAIL: wholeNumber(5),
@@ -68,10 +65,6 @@ function shape(env: z.output<typeof settings>) {
 		fakeInboxUrl: env.FAKES ? env.FAKE_INBOX_URL || 'http://127.0.0.1:8025/' : null,
 		/** The fake payment service's page (sessions, payments, events); shown only when fakes are enabled. */
 		fakePaymentsUrl: env.FAKES ? env.FAKE_PAYMENTS_URL || null : null,
-		/** Public origin for links that leave the app (QR codes, credential ids); adapter-node reads the same variable. */
-		origin: (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, ''),
-		/** The training provider that issues certificates. */
-		issuerName: env.ISSUER_NAME || 'Fenmoor Training Yard',
 		seedDemo: env.SEED_DEMO,
 		signInLimits: { perEmail: env.SIGN_IN_LIMIT_PER_EMAIL, perIp: env.SIGN_IN_LIMIT_PER_IP, windowMs: 15 * 60 * 1000 },
 		rateLimitFactor: env.RATE_LIMIT_FACTOR,
