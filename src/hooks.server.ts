@@ -12,6 +12,7 @@ import { seedDemo } from '$lib/server/demo-seed';
 import { fillLessonBodySlot } from '$lib/server/lesson-html';
 import { seedDemoPracticals } from '$lib/server/demo-practicals';
 import { issuerKey } from '$lib/server/issuer-key';
+import { startSchedules } from '$lib/server/schedules';
 import { withRequestContext } from '$lib/server/request-context';
 import { sessionIdFromCookie } from '$lib/server/session-cookie';
 import { identityForSession } from '$lib/server/sessions';
@@ -29,6 +30,7 @@ export const init: ServerInit = async () => {
 			await seedDemoPracticals();
 			console.log('Seeded the demo scenario.');
 		}
+		startSchedules();
 	} catch (e) {
 		// A setting or the data folder is wrong: one line that says which, not a stack trace.
 		if (e instanceof ConfigError || e instanceof DataDirError || (e instanceof Error && e.message.startsWith('AUTH_SECRET'))) {

@@ -92,7 +92,7 @@ describe('people, roles and companies', () => {
 	});
 
 	it('build the navigation from the roles held', async () => {
-		expect(navigationFor(null).map((l) => l.href)).toEqual(['/courses', '/tools']);
+		expect(navigationFor(null).map((l) => l.href)).toEqual(['/courses', '/tools', '/verify']);
 		const u = await createUser({ email: 'r@example.test', name: 'R' }, db);
 		await grantRole(null, u.id, 'registrar', db);
 		const hrefs = navigationFor(await loadIdentity(u.id, db)).map((l) => l.href);

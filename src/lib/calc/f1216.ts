@@ -132,7 +132,8 @@ const commonInputs = {
 		min: 10000,
 		max: 2000000,
 		step: 1000,
-		help: 'Default: half the 250 000 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value. Use the maker’s tested long-term figure.'
+		help: 'Default: half the 250 000 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value. Use the maker’s tested long-term figure.',
+		helpBySystem: { metric: 'Default: half the 1724 MPa felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value. Use the maker’s tested long-term figure.' }
 	},
 	safetyFactor: {
 		name: 'safetyFactor',
@@ -179,7 +180,7 @@ export const f1216PartialCalculator: CalculatorDef<F1216PartialInputs> = {
 			step: 50,
 			optional: true,
 			help: 'For the oval-pipe bending check. Default: half the 4500 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.',
-			helpBySystem: { metric: 'For the oval-pipe bending check. Default: half the 31 MPa (4500 psi) felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.' }
+			helpBySystem: { metric: 'For the oval-pipe bending check. Default: half the 31 MPa felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.' }
 		}
 	],
 	results: [
@@ -299,7 +300,8 @@ export const f1216FullCalculator: CalculatorDef<F1216FullInputs> = {
 			max: 3000000,
 			step: 1000,
 			optional: true,
-			help: 'For the minimum-stiffness check (X1.4). Default: the 250 000 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.'
+			help: 'For the minimum-stiffness check (X1.4). Default: the 250 000 psi felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.',
+			helpBySystem: { metric: 'For the minimum-stiffness check (X1.4). Default: the 1724 MPa felt-tube minimum of ASTM F1216 Table 1, not a patch laminate value.' }
 		},
 		commonInputs.safetyFactor
 	],
