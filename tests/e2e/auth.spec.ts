@@ -67,7 +67,7 @@ test.describe('signing up and in', () => {
 	});
 
 	test('reset a forgotten password by e-mail and sign in with the new one', async ({ page, request }) => {
-		const email = 'luca@brindlewick.test';
+		const email = 'kit@tarnside.test';
 		await page.goto('/sign-in');
 		await page.getByRole('link', { name: 'Forgot your password?' }).click();
 		await expect(page.getByRole('heading', { name: 'Reset your password' })).toBeVisible();

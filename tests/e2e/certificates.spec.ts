@@ -125,7 +125,7 @@ test('the JSON API answers the same shape for an unknown and a malformed number'
 	expect((await list.json()).results[0]).toMatchObject({ found: false });
 	const tooMany = await request.post('/api/v1/certificates/verify', { data: { numbers: Array.from({ length: 201 }, () => 'x') } });
 	expect(tooMany.status()).toBe(400);
-	expect((await tooMany.json()).error.code).toBe('invalid_body');
+	expect((await tooMany.json()).error.code).toBe('bad_request');
 	const proto = await request.post('/api/v1/certificates/verify', { data: { __proto__: { numbers: ['x'] }, constructor: 1 } });
 	expect(proto.status()).toBe(400);
 });

@@ -47,7 +47,7 @@ test('a trainee opens a course, reads a lesson, uses its calculator, marks it do
 	await page.goto('/courses');
 	await page.getByRole('link', { name: 'Point-repair installer', exact: true }).click();
 	await expect(page).toHaveURL(COURSE);
-	await expect(page.getByRole('heading', { level: 2, name: 'What the certificate will prove' })).toBeVisible();
+	await expect(page.getByRole('heading', { level: 2, name: 'What the certificate proves' })).toBeVisible();
 	const before = await lessonsDone(page, 'Point-repair installer');
 
 	await page.getByRole('link', { name: /^7 Resin quantity/ }).click();
@@ -114,8 +114,9 @@ test('a signed-in person without a seat gets a 403 page that says how to get one
 	expect(response?.status()).toBe(403);
 	await expect(page.getByRole('heading', { level: 1, name: 'This lesson needs a seat' })).toBeVisible();
 	await expect(page.getByText('This lesson is for trainees enrolled in Transition patches.')).toBeVisible();
-	// Seats are not on sale yet: the page says who enrols trainees today instead of promising a purchase.
-	await expect(page.getByText(/the training provider’s registrar enrols each trainee/)).toBeVisible();
+	// Both ways to a seat: the company admin assigns one, or a person on their own buys one.
+	await expect(page.getByText(/ask your company admin to assign you a seat/)).toBeVisible();
+	await expect(page.getByText(/buy a seat on the course page/)).toBeVisible();
 
 	await page.getByRole('link', { name: 'See the course and its free previews' }).click();
 	await expect(page).toHaveURL('/courses/transition-patches');

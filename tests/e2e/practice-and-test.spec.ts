@@ -162,8 +162,8 @@ test('the trainee fails the course test, waits, and passes', async ({ page }) =>
 	const trainerPage = await staff.newPage();
 	await signInRequest(trainerPage.request, who.trainer);
 	await trainerPage.goto(`/trainer/attempts?course=${COURSE}`);
-	await trainerPage.getByText('Allow a retake now…').click();
-	const lift = trainerPage.getByTestId('lift-wait');
+	const lift = trainerPage.getByTestId('lift-wait').filter({ has: trainerPage.getByLabel(`Allow a retake now for ${TRAINEE}…`) });
+	await lift.getByText('Allow a retake now…').click();
 	// Without a reason and a confirmation nothing changes.
 	await lift.getByRole('button', { name: /^Lift the wait for/ }).click();
 	await expect(lift.getByRole('textbox')).toHaveJSProperty('validity.valueMissing', true);

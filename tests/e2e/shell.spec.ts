@@ -26,7 +26,7 @@ test('the About page speaks to crews: what works today, no code', async ({ page 
 	await page.goto('/about');
 	await expect(page.getByRole('heading', { level: 1, name: 'About Patchwright' })).toBeVisible();
 	await expect(page.getByTestId('capabilities')).toContainText('Course test');
-	await expect(page.getByTestId('capabilities')).toContainText('Not issued by Patchwright yet');
+	await expect(page.getByTestId('capabilities')).toContainText('Issued once the test is passed and every sign-off is in.');
 	await expect(page.locator('main pre, main code')).toHaveCount(0);
 });
 

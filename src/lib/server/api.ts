@@ -163,10 +163,11 @@ export async function readJson<S extends z.ZodType>(
 }
 
 /**
- * Routes other programs may POST to from anywhere: pure computations, and the payment
+ * Routes other programs may POST to from anywhere: pure computations, certificate checks (they
+ * change nothing), and the payment
  * service's webhook, which is authenticated by its signature over the body instead.
  */
-export const ORIGIN_FREE = new Set(['/api/v1/calculations/[id]', '/api/v1/practice/[generator]/check', '/api/v1/payments/webhook']);
+export const ORIGIN_FREE = new Set(['/api/v1/calculations/[id]', '/api/v1/practice/[generator]/check', '/api/v1/payments/webhook', '/api/v1/certificates/verify']);
 
 const SAFE_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 

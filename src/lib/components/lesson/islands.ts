@@ -1,3 +1,4 @@
+import { fitLabels } from '$lib/diagrams/fit-labels';
 import { mount, unmount, type Component } from 'svelte';
 
 /**
@@ -28,6 +29,9 @@ export type IslandName = keyof typeof islands;
 export function mountIslands(root: HTMLElement): () => void {
 	const mounted: ReturnType<typeof mount>[] = [];
 	let stopped = false;
+	// Diagrams stay server HTML (never hydrated), so their labels are fitted here; pictures
+	// inside islands fit their own once mounted.
+	const fitted = [...root.querySelectorAll<SVGSVGElement>('svg')].filter((svg) => !svg.closest('[data-island]') && svg.querySelector('text')).map((svg) => fitLabels(svg));
 	for (const element of root.querySelectorAll<HTMLElement>('[data-island]')) {
 		const name = element.dataset.island ?? '';
 		if (!Object.hasOwn(islands, name)) continue;
@@ -42,5 +46,6 @@ export function mountIslands(root: HTMLElement): () => void {
 	return () => {
 		stopped = true;
 		for (const instance of mounted) unmount(instance);
+		for (const fit of fitted) fit.destroy();
 	};
 }

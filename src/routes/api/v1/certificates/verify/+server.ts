@@ -31,10 +31,10 @@ async function readBody(request: Request): Promise<Uint8Array | null> {
 export const POST: RequestHandler = async (event) => {
 	const type = (event.request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 	const bytes = await readBody(event.request);
-	if (!bytes) return problem(413, 'too_large', `The body is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB.`);
+	if (!bytes) return problem(413, 'payload_too_large', `The body is larger than ${MAX_UPLOAD_BYTES / 1024 / 1024} MB.`);
 
 	if (type === 'application/pdf') {
-		if (!looksLikePdf(bytes)) return problem(400, 'not_pdf', 'The body is not a PDF file.');
+		if (!looksLikePdf(bytes)) return problem(400, 'bad_request', 'The body is not a PDF file.');
 		const wait = await chargeLookups(event.getClientAddress());
 		if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
 		return json(fileAnswer(await verifyPdf(bytes)));
@@ -61,7 +61,7 @@ export const POST: RequestHandler = async (event) => {
 	const asNumbers = numbersBody.safeParse(body);
 	if (!asNumbers.success) {
 		const fields = Object.fromEntries(asNumbers.error.issues.map((i) => [i.path.join('.') || 'body', i.message]));
-		return problem(400, 'invalid_body', 'Send {"numbers": [...]} (up to 200) or {"jwt": "..."}.', fields);
+		return problem(400, 'bad_request', 'Send {"numbers": [...]} (up to 200) or {"jwt": "..."}.', fields);
 	}
 	const wait = await chargeLookups(event.getClientAddress(), asNumbers.data.numbers.length);
 	if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
