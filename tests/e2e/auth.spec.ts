@@ -56,7 +56,7 @@ test.describe('signing up and in', () => {
 	test('too many wrong passwords for one address are refused with a wait', async ({ page }) => {
 		await page.goto('/sign-in');
 		for (let i = 0; i < 6; i++) {
-			await page.getByLabel('E-mail address').first().fill('finn@tarnside.test');
+			await page.getByLabel('E-mail address').first().fill('rhea@tarnside.test');
 			await page.getByLabel('Password').fill(`wrong-${i}`);
 			await page.getByRole('button', { name: 'Sign in', exact: true }).click();
 			await expect(page.getByRole('alert')).toBeVisible();

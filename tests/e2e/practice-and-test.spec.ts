@@ -206,7 +206,7 @@ test('the trainee fails the course test, waits, and passes', async ({ page }) =>
 
 test('the course test says what is wrong with a typed number before saving it, as practice does', async ({ page }) => {
 	await signInRequest(page.request, 'finn@tarnside.test');
-	const started = await page.request.post(`/api/v1/courses/${COURSE}/attempts`, { data: {} });
+	const started = await page.request.post(`/api/v1/courses/${COURSE}/attempts`, { data: {}, headers: { origin: baseURL } });
 	expect(started.ok()).toBe(true);
 	const view = await (await page.request.get(`/api/v1/attempts/${(await started.json()).attempt.id}`)).json();
 	const numeric = (view.items as { position: number; kind: string; unit: string }[]).find((i) => i.kind === 'numeric' && i.unit !== '')!;
