@@ -244,8 +244,15 @@ test('a trainer sees the attempts and the item statistics', async ({ page }) => 
 	await expect(page.getByTestId('review-item').first()).toContainText('Ade Kowal’s answer');
 	await expect(page.getByText('Your answer')).toHaveCount(0);
 
+	// Other specs submit attempts of this course too, and the demo's certificate holders have
+	// passes recorded without a draw (nothing to count per item): the statistics count the
+	// closed attempts that drew items, at least this trainee's two.
+	await page.goto(`/trainer/attempts?course=${COURSE}`);
+	const closed = await page.getByTestId('attempt-row').filter({ hasText: /Passed|Not passed/ }).count();
 	await page.goto(`/trainer/attempts/items?course=${COURSE}`);
-	await expect(page.getByTestId('attempt-count')).toHaveText('2');
+	const counted = Number(await page.getByTestId('attempt-count').textContent());
+	expect(counted).toBeGreaterThanOrEqual(2);
+	expect(counted).toBeLessThanOrEqual(closed);
 	const items = page.getByTestId('item-stat');
 	expect(await items.count()).toBeGreaterThanOrEqual(20);
 	await expect(items.first()).toContainText('Drawn');
