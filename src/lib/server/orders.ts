@@ -63,7 +63,7 @@ export class OrderRefused extends Error {
 }
 
 /** Whether the person holds a current (not revoked, not replaced) certificate of the course. */
-async function holdsCertificateOf(userId: string, courseSlug: string, db: DB): Promise<boolean> {
+export async function holdsCertificateOf(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
 	const row = await db
 		.selectFrom('certificate')
 		.select('id')

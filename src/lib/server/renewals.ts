@@ -4,7 +4,7 @@ import { recordAudit } from './audit';
 import { checkRenewal, renewalWindow, type RenewalCheck } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { openRenewalOf } from './renewal-open';
-import { renewalSeatLedger, takeRenewalSeat } from './seats';
+import { ownRenewalSeat, renewalSeatLedger, takeRenewalSeat } from './seats';
 
 /**
  * Renewal: the shorter path that keeps a certificate going. The holder starts it inside the
@@ -46,16 +46,7 @@ export interface RenewalView {
 const isoDay = (d: Date) => d.toISOString().slice(0, 10);
 
 async function seatReady(userId: string, courseSlug: string, db: DB): Promise<boolean> {
-	const own = await db
-		.selectFrom('seat')
-		.select('id')
-		.where('holder_id', '=', userId)
-		.where('course_slug', '=', courseSlug)
-		.where('product', '=', 'renewal')
-		.where('refunded_at', 'is', null)
-		.where('used_at', 'is', null)
-		.executeTakeFirst();
-	if (own) return true;
+	if (await ownRenewalSeat(userId, courseSlug, db)) return true;
 	const companies = await db.selectFrom('membership').select('company_id').where('user_id', '=', userId).execute();
 	for (const c of companies) {
 		if ((await renewalSeatLedger(c.company_id, db)).some((l) => l.courseSlug === courseSlug && l.free > 0)) return true;

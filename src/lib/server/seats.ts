@@ -259,14 +259,9 @@ export async function renewalSeatLedger(companyId: string, db: DB = defaultDb): 
 	}));
 }
 
-/**
- * Takes a renewal seat for a holder starting a renewal: one they bought for themselves, else a
- * free one of a company they belong to. The guarded update keeps two claims off one seat.
- * Marks it used at once. Returns the seat id, or null when there is none.
- */
-export async function takeRenewalSeat(userId: string, courseSlug: string, now: Date, db: DB): Promise<string | null> {
-	const at = now.toISOString();
-	const own = await db
+/** An unused renewal seat the person bought for themselves. */
+export function ownRenewalSeat(userId: string, courseSlug: string, db: DB = defaultDb) {
+	return db
 		.selectFrom('seat')
 		.select('id')
 		.where('holder_id', '=', userId)
@@ -276,6 +271,16 @@ export async function takeRenewalSeat(userId: string, courseSlug: string, now: D
 		.where('used_at', 'is', null)
 		.orderBy('created_at')
 		.executeTakeFirst();
+}
+
+/**
+ * Takes a renewal seat for a holder starting a renewal: one they bought for themselves, else a
+ * free one of a company they belong to. The guarded update keeps two claims off one seat.
+ * Marks it used at once. Returns the seat id, or null when there is none.
+ */
+export async function takeRenewalSeat(userId: string, courseSlug: string, now: Date, db: DB): Promise<string | null> {
+	const at = now.toISOString();
+	const own = await ownRenewalSeat(userId, courseSlug, db);
 	if (own) {
 		const used = await db.updateTable('seat').set({ used_at: at }).where('id', '=', own.id).where('used_at', 'is', null).executeTakeFirst();
 		if (Number(used.numUpdatedRows) === 1) return own.id;
