@@ -123,13 +123,18 @@ export function listAssignedSeats(companyId: string, db: DB = defaultDb) {
  * id or null when none is free.
  */
 export async function claimSeat(companyId: string, courseSlug: string, userId: string, db: DB): Promise<string | null> {
+	return claimFree([companyId], courseSlug, 'course', userId, null, db);
+}
+
+/** Takes the oldest free seat of the product for one of the companies; `usedAt` also marks it in use. */
+async function claimFree(companyIds: string[], courseSlug: string, product: SeatProduct, userId: string, usedAt: string | null, db: DB): Promise<string | null> {
 	for (let tries = 0; tries < 5; tries++) {
 		const candidate = await db
 			.selectFrom('seat')
 			.select('id')
-			.where('company_id', '=', companyId)
+			.where('company_id', 'in', companyIds)
 			.where('course_slug', '=', courseSlug)
-			.where('product', '=', 'course')
+			.where('product', '=', product)
 			.where('holder_id', 'is', null)
 			.where('refunded_at', 'is', null)
 			.orderBy('created_at')
@@ -138,7 +143,7 @@ export async function claimSeat(companyId: string, courseSlug: string, userId: s
 		if (!candidate) return null;
 		const result = await db
 			.updateTable('seat')
-			.set({ holder_id: userId, assigned_at: nowIso() })
+			.set({ holder_id: userId, assigned_at: usedAt ?? nowIso(), ...(usedAt ? { used_at: usedAt } : {}) })
 			.where('id', '=', candidate.id)
 			.where('holder_id', 'is', null)
 			.where('refunded_at', 'is', null)
@@ -286,28 +291,5 @@ export async function takeRenewalSeat(userId: string, courseSlug: string, now: D
 		if (Number(used.numUpdatedRows) === 1) return own.id;
 	}
 	const companies = (await db.selectFrom('membership').select('company_id').where('user_id', '=', userId).execute()).map((m) => m.company_id);
-	if (!companies.length) return null;
-	for (let tries = 0; tries < 5; tries++) {
-		const candidate = await db
-			.selectFrom('seat')
-			.select('id')
-			.where('company_id', 'in', companies)
-			.where('course_slug', '=', courseSlug)
-			.where('product', '=', 'renewal')
-			.where('holder_id', 'is', null)
-			.where('refunded_at', 'is', null)
-			.orderBy('created_at')
-			.limit(1)
-			.executeTakeFirst();
-		if (!candidate) return null;
-		const result = await db
-			.updateTable('seat')
-			.set({ holder_id: userId, assigned_at: at, used_at: at })
-			.where('id', '=', candidate.id)
-			.where('holder_id', 'is', null)
-			.where('refunded_at', 'is', null)
-			.executeTakeFirst();
-		if (Number(result.numUpdatedRows) === 1) return candidate.id;
-	}
-	return null;
+	return companies.length ? claimFree(companies, courseSlug, 'renewal', userId, at, db) : null;
 }
