@@ -5,8 +5,12 @@
  * (path-style addressing).
  */
 import fs from 'node:fs';
+import { createRequire } from 'node:module';
 import type { AddressInfo } from 'node:net';
-import S3rver from 's3rver';
+import type S3rverClass from 's3rver';
+
+// s3rver is CommonJS (module.exports = class); loaded the same way under vitest and jiti.
+const S3rver = createRequire(import.meta.url)('s3rver') as typeof S3rverClass;
 
 export interface S3FakeOptions {
 	port: number;
