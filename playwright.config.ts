@@ -20,8 +20,12 @@ export const paymentsURL = `http://127.0.0.1:${PAY_PORT}/`;
  * The app keeps its files in the S3 fake (s3rver, started with the other fakes) unless
  * E2E_STORAGE=filesystem: evidence uploads and certificate downloads go through the AWS SDK.
  */
-const useS3 = process.env.E2E_STORAGE !== 'filesystem';
+export const useS3 = process.env.E2E_STORAGE !== 'filesystem';
+// the AWS SDK's notice that its 2027 releases will need Node 22 (known; see README), in the tests and the app
+process.env.AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED ??= 'true';
 export const s3URL = `http://127.0.0.1:${S3_PORT}`;
+export const s3Bucket = S3_BUCKET;
+export const e2eDataDir = `${artifacts}/e2e-data`;
 const s3Settings = useS3
 	? { S3_ENDPOINT: s3URL, S3_BUCKET, S3_REGION: 'us-east-1', S3_ACCESS_KEY_ID: 'S3RVER', S3_SECRET_ACCESS_KEY: 'S3RVER', S3_FORCE_PATH_STYLE: '1' }
 	: {};
