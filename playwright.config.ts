@@ -26,7 +26,7 @@ process.env.AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED ??= 'true';
 export const s3URL = `http://127.0.0.1:${S3_PORT}`;
 export const s3Bucket = S3_BUCKET;
 export const e2eDataDir = `${artifacts}/e2e-data`;
-const s3Settings = useS3
+const s3Settings: Record<string, string> = useS3
 	? { S3_ENDPOINT: s3URL, S3_BUCKET, S3_REGION: 'us-east-1', S3_ACCESS_KEY_ID: 'S3RVER', S3_SECRET_ACCESS_KEY: 'S3RVER', S3_FORCE_PATH_STYLE: '1' }
 	: {};
 

@@ -90,7 +90,7 @@ export function contentTypeOf(key: string): string {
  */
 function measured(body: PutBody) {
 	const state: { sizeBytes: number; sourceError: unknown } = { sizeBytes: 0, sourceError: undefined };
-	async function* pass(source: AsyncIterable<Uint8Array>) {
+	async function* pass(source: AsyncIterable<Uint8Array> | Iterable<Uint8Array>) {
 		try {
 			for await (const chunk of source) {
 				state.sizeBytes += chunk.length;
@@ -140,8 +140,13 @@ export class FilesystemStore implements FileStore {
 			if (isMissingFile(err)) return null;
 			throw unavailable('read', key, err);
 		}
-		const { size } = await handle.stat();
-		return { body: handle.createReadStream(), sizeBytes: size, contentType: contentTypeOf(key) };
+		try {
+			const { size } = await handle.stat();
+			return { body: handle.createReadStream(), sizeBytes: size, contentType: contentTypeOf(key) };
+		} catch (err) {
+			await handle.close();
+			throw unavailable('read', key, err);
+		}
 	}
 
 	async exists(key: string): Promise<boolean> {
@@ -220,8 +225,11 @@ export class S3Store implements FileStore {
 		assertValidKey(key);
 		try {
 			const object = await this.client.send(new GetObjectCommand({ Bucket: this.bucket, Key: key }));
-			if (!(object.Body instanceof Readable)) throw new Error('The S3 client returned no stream body');
-			return { body: object.Body, sizeBytes: Number(object.ContentLength ?? 0), contentType: object.ContentType || contentTypeOf(key) };
+			if (!(object.Body instanceof Readable) || !Number.isSafeInteger(object.ContentLength)) {
+				(object.Body as Readable | undefined)?.destroy?.();
+				throw new Error('the service answered without a body stream and its length');
+			}
+			return { body: object.Body, sizeBytes: object.ContentLength!, contentType: object.ContentType || contentTypeOf(key) };
 		} catch (err) {
 			if (isMissingObject(err)) return null;
 			throw unavailable('read', key, err);
