@@ -93,6 +93,10 @@ test(`evidence and certificate files are kept in ${useS3 ? 'the S3 fake' : 'DATA
 	const again = await holder.request.get(href!);
 	expect(Number(again.headers()['content-length'])).toBe(pdf.length);
 	expect(Buffer.compare(await again.body(), pdf)).toBe(0);
+	// names that are properties of every object are not formats
+	for (const name of ['constructor', '__proto__', 'toString']) {
+		expect((await holder.request.get(href!.replace('a4.pdf', name))).status(), name).toBe(404);
+	}
 	const pdfKey = keyOf(await storedObjects(), pdf);
 	expect(pdfKey, 'the served PDF is a stored object').toMatch(/^certificates\/[0-9a-f-]+\/a4-[0-9a-f]{16}\.pdf$/);
 	expect(Buffer.compare(Buffer.from(await readStored(pdfKey!)), pdf)).toBe(0);
