@@ -18,7 +18,9 @@ export function startSchedules(): Cron[] {
 	});
 	const reminders = new Cron('15 6 * * *', { protect: true, timezone: 'UTC', catch: (e) => console.error('Sending expiry reminders failed:', e) }, runReminders);
 	// at start-up too, a moment after the server is listening
-	setTimeout(() => reminders.trigger(), 2_000).unref?.();
+	setTimeout(() => {
+		if (!reminders.isStopped()) void reminders.trigger();
+	}, 2_000).unref?.();
 	return [closeDue, reminders];
 }
 
