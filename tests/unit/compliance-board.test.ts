@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { courses } from '$lib/content';
 import { boardCatalogue, boardQuery, cellState, cellSummary, cellText, daysBetween, readBoardQuery, viewBoard, validCertificates, type BoardRow, type BoardFilter } from '$lib/compliance/board';
 import { companyBoard } from '$lib/server/compliance';
+import { seedDemo } from '$lib/server/demo-seed';
 import { createTestDb } from '../helpers/db';
 import { useTemporaryDataDir } from '../helpers/certificates';
 import { buildFixtureCompany, NOW, PR, PS, TODAY, type Fixture } from '../helpers/compliance-fixture';
@@ -131,5 +132,24 @@ describe('board rules without a database', () => {
 		expect(boardQuery(good.filter).toString()).toBe(`course=${PS}&state=expired&expiring=60&q=nell&sort=${PR}&dir=desc`);
 		expect(readBoardQuery(boardQuery(good.filter), catalogue).filter).toEqual(good.filter);
 		expect(boardQuery(all).toString()).toBe('');
+	});
+});
+
+describe('the demo company', () => {
+	it('shows every state on Brindlewick Drainage\'s board, two certificates expiring within 60 days and a third within 90', async () => {
+		useTemporaryDataDir();
+		const db = await createTestDb();
+		try {
+			await seedDemo(db);
+			const company = await db.selectFrom('company').select('id').where('name', '=', 'Brindlewick Drainage').executeTakeFirstOrThrow();
+			const rows = await companyBoard(company.id, catalogue, { db });
+			const states = new Set(rows.flatMap((r) => r.cells.map((c) => c.state)));
+			expect([...states].sort()).toEqual(['certified', 'expired', 'expiring', 'learning', 'not-enrolled', 'revoked', 'skills', 'test-passed']);
+			const names = (expiring: 30 | 60 | 90) => viewBoard(rows, catalogue, { ...all, expiring }).rows.map((r) => r.name);
+			expect(names(60)).toEqual(['Mae Ridley', 'Owen Tarrant']);
+			expect(names(90)).toEqual(['Mae Ridley', 'Owen Tarrant', 'Tom Quarrie']);
+		} finally {
+			await db.destroy();
+		}
 	});
 });
