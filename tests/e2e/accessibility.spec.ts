@@ -29,6 +29,8 @@ test('signed-in pages pass the automated accessibility checks', async ({ page })
 	await page.context().clearCookies();
 	await signInWithPassword(page, who.companyAdmin);
 	await expectAccessible(page, '/company');
+	await expectAccessible(page, '/company/board');
+	await expectAccessible(page, '/company/board?expiring=60&state=bogus');
 });
 
 test('a refused form announces its errors and ties each to its field', async ({ page }) => {
