@@ -24,6 +24,7 @@ test('public pages pass the automated accessibility checks', async ({ page }) =>
 });
 
 test('signed-in pages pass the automated accessibility checks', async ({ page }) => {
+	test.slow(); // seven pages through axe
 	await signInWithPassword(page, who.registrar);
 	for (const path of ['/dashboard', '/registrar/people', '/registrar/audit']) await expectAccessible(page, path);
 	await page.context().clearCookies();
