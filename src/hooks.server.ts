@@ -30,7 +30,12 @@ export const init: ServerInit = async () => {
 			await seedDemoPracticals();
 			console.log('Seeded the demo scenario.');
 		}
-		startSchedules();
+		const jobs = startSchedules();
+		// adapter-node emits this once the HTTP server has closed (SIGTERM, SIGINT): the jobs'
+		// timers would otherwise keep the process alive until it is killed.
+		process.once('sveltekit:shutdown', () => {
+			for (const job of jobs) job.stop();
+		});
 	} catch (e) {
 		// A setting or the data folder is wrong: one line that says which, not a stack trace.
 		if (e instanceof ConfigError || e instanceof DataDirError || (e instanceof Error && e.message.startsWith('AUTH_SECRET'))) {
