@@ -107,6 +107,7 @@ Patchwright demo is running.
 
 Demo logins (password for all: ${DEMO_PASSWORD}):
 ${DEMO_PEOPLE.map((p) => `  ${p.email.padEnd(width)}  ${p.part}`).join('\n')}
+  (Brindlewick's compliance board, at ${url}/company/board as admin@brindlewick.test, shows every state.)
 
 Press Ctrl+C to stop.`);
 	}
