@@ -35,7 +35,10 @@ export const actionLabels: Record<string, string> = {
 	'role.trainer-scope': 'Trainer’s crew set',
 	'test.start': 'Course test started',
 	'test.submit': 'Course test submitted',
-	'test.wait-waived': 'Wait before a retake lifted'
+	'test.wait-waived': 'Wait before a retake lifted',
+	'certificate.reminder': 'Expiry reminder sent',
+	'renewal.start': 'Renewal started',
+	'renewal.complete': 'Certificate renewed'
 };
 
 const roleWords: Record<string, string> = { trainer: 'trainer', inspector: 'inspector', registrar: 'registrar' };
@@ -69,7 +72,12 @@ const phrases: Record<string, Phrase> = {
 		return `${e.actor ? actor : subject} submitted the ${course} course test${how}: ${score}, ${outcome}.`.replace(/^(.)/, (c) => c.toUpperCase());
 	},
 	'test.wait-waived': (e, actor, subject, course) =>
-		`${actor} let ${subject} retake the ${course} course test before the wait ended. Reason: ${text(e.detail.reason) || 'none given (recorded before reasons were asked)'}.`
+		`${actor} let ${subject} retake the ${course} course test before the wait ended. Reason: ${text(e.detail.reason) || 'none given (recorded before reasons were asked)'}.`,
+	'certificate.reminder': (e) =>
+		`The system reminded ${text(e.detail.to) || 'someone'} (${text(e.detail.recipientRole) || 'recipient'}) that certificate ${text(e.detail.number)} expires in ${text(e.detail.daysLeft)} days (${text(e.detail.thresholdDays)}-day reminder).`,
+	'renewal.start': (e, actor, _subject, course) => `${actor} started the renewal of certificate ${text(e.detail.number)} (${course}).`,
+	'renewal.complete': (e, _actor, _subject, course) =>
+		`Certificate ${text(e.detail.number)} (${course}) was renewed by ${text(e.detail.replacedBy)}, valid until ${text(e.detail.expiresOn)}.`
 };
 
 /** One sentence for an entry. */

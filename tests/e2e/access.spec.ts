@@ -1,5 +1,17 @@
 import { expect, request as newRequest, test, type APIResponse } from '@playwright/test';
+import Database from 'better-sqlite3';
 import { baseURL, signInRequest, who, type Identity } from './support';
+
+/** The number of a person's current certificate, read from the e2e database (read-only). */
+function currentCertificateOf(email: string): string | undefined {
+	const db = new Database('tests/.artifacts/e2e-data/patchwright.sqlite', { readonly: true, fileMustExist: true });
+	try {
+		const row = db.prepare('select c.number from certificate c join User u on u.id = c.user_id where u.email = ? and c.slot is not null').get(email) as { number: string } | undefined;
+		return row?.number;
+	} finally {
+		db.close();
+	}
+}
 
 /**
  * Who may open what. `ok` is 200; `in` is a redirect to sign-in; a number is that status.
@@ -93,6 +105,10 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/certificates/0000-0000-0000-0000/a4.pdf', { anonymous: 'in', other: 404 }],
 	['/courses/point-repair-installer/buy', { anonymous: 'in', other: 'ok' }],
 	['/courses/no-such-course/buy', { anonymous: 'in', other: 404 }],
+	['/courses/packer-pressure-safety/buy?product=renewal', { anonymous: 'in', other: 'ok' }],
+	['/courses/packer-pressure-safety/buy?product=__proto__', { anonymous: 'in', other: 'ok' }],
+	['/certificates/0000-0000-0000-0000/renew', { anonymous: 'in', other: 404 }],
+	['/certificates/__proto__/renew', { anonymous: 'in', other: 404 }],
 	['/orders', { anonymous: 'in', other: 'ok' }],
 	[`/orders/${NO_ID}`, { anonymous: 'in', other: 404 }],
 	['/orders/not-an-id', { anonymous: 'in', other: 404 }],
@@ -407,4 +423,32 @@ test("a company admin sees their own crew's records and exports, and another com
 	expect((await inspector.person.get(`/company/people/${samId}`, { maxRedirects: 0 })).status()).toBe(403);
 	expect((await sam.person.get(`/company/board/board.csv?c=${brindlewickId}`, { maxRedirects: 0 })).status()).toBe(403);
 	for (const p of [brindlewick, tarnside, provider, sam, inspector]) await p.person.dispose();
+});
+
+test("another person's certificate has no renewal page, and its renewal cannot be started", async () => {
+	// Owen Tarrant's PS-150 certificate (demo): nobody but Owen may open or start its renewal.
+	const number = currentCertificateOf('owen@brindlewick.test');
+	expect(number, 'Owen holds a certificate').toMatch(/^[0-9A-Z]{4}-/);
+	const owen = await newRequest.newContext({ baseURL });
+	await signInRequest(owen, 'owen@brindlewick.test');
+	expect((await owen.get(`/certificates/${number}/renew`, { maxRedirects: 0 })).status()).toBe(200);
+	await owen.dispose();
+	for (const identity of identities.filter((i) => i !== 'anonymous')) {
+		const request = await newRequest.newContext({ baseURL });
+		await signInRequest(request, who[identity]);
+		expect((await request.get(`/certificates/${number}/renew`, { maxRedirects: 0 })).status(), identity).toBe(404);
+		const start = await request.post(`/certificates/${number}/renew?/start`, { form: {}, headers: { origin: baseURL, accept: 'application/json', 'x-sveltekit-action': 'true' }, maxRedirects: 0 });
+		expect(JSON.parse(await start.text()), identity).toMatchObject({ type: 'failure', status: 404 });
+		await request.dispose();
+	}
+	const anonymous = await newRequest.newContext({ baseURL });
+	const refused = await anonymous.post(`/certificates/${number}/renew?/start`, { form: {}, headers: { origin: baseURL, accept: 'text/html' }, maxRedirects: 0 });
+	expect(refused.status()).toBe(303);
+	expect(refused.headers().location).toMatch(/^\/sign-in\?next=/);
+	// cross-origin form posts are refused before any action runs
+	const owen2 = await newRequest.newContext({ baseURL });
+	await signInRequest(owen2, 'owen@brindlewick.test');
+	expect((await owen2.post(`/certificates/${number}/renew?/start`, { form: {}, headers: { origin: 'https://elsewhere.example', accept: 'text/html' }, maxRedirects: 0 })).status()).toBe(403);
+	await owen2.dispose();
+	await anonymous.dispose();
 });

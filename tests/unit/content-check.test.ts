@@ -29,10 +29,15 @@ test:
   attemptsAllowed: 1
   waitHours: 0
   generators: [resin-quantity]
+renewal:
+  priceCents: 500
+  opensDaysBefore: 90
+  graceDays: 30
 practicalSkills:
   - id: one
     title: One skill
     criteria: [Done well]
+    renewal: true
 ---
 Body.
 `;

@@ -178,3 +178,26 @@ describe('payment webhook', () => {
 		await expect(openOrder(1.5)).rejects.toThrow();
 	});
 });
+
+describe('renewal seats through the same order flow', () => {
+	it('a company buys renewal seats at the renewal price; the webhook grants them as renewal seats, not course seats', async () => {
+		const { renewalSeatLedger } = await import('$lib/server/seats');
+		const order = await startOrder(await admin(), { courseSlug: COURSE, quantity: 3, companyId, product: 'renewal' }, 'http://app.test', db);
+		// the renewal price of the course definition (content/courses/point-repair-installer/course.md)
+		expect(order.unit_amount).toBe(19500);
+		expect(order.total_amount).toBe(3 * 19500);
+		const session = harness.fake.state.sessions.find((s) => s.id === order.checkout_session_id)!;
+		expect(session.line_items).toEqual([{ name: 'Point-repair installer (PR-100), one renewal seat', currency: 'eur', unit_amount: 19500, quantity: 3 }]);
+		await harness.pay(order.checkout_session_id!, '4242 4242 4242 4242');
+		await harness.settled();
+		expect((await getOrder(order.id, db))?.state).toBe('paid');
+		expect(await renewalSeatLedger(companyId, db)).toEqual([{ courseSlug: COURSE, courseTitle: 'Point-repair installer', bought: 3, used: 0, free: 3 }]);
+		expect(await bought()).toBe(0);
+	});
+
+	it('a person buys a renewal seat for themselves only when they hold the course certificate', async () => {
+		const person = await createUser({ email: 'solo@crew.test', name: 'Solo' }, db);
+		const identity = (await loadIdentity(person.id, db))!;
+		await expect(startOrder(identity, { courseSlug: COURSE, quantity: 1, companyId: null, product: 'renewal' }, 'http://app.test', db)).rejects.toThrow(/holds this course/);
+	});
+});

@@ -14,6 +14,7 @@ const order = {
 	state: 'paid' as const,
 	stateLabel: 'Paid',
 	course: { slug: 'transition-patches', title: 'Transition patches', code: 'TP-200' },
+	product: 'course' as const,
 	company: { id: 'c', name: 'Brindlewick Drainage' },
 	buyer: { name: 'Jo Penhallow', email: 'admin@brindlewick.test' },
 	quantity: 5,

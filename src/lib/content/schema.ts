@@ -21,9 +21,28 @@ export const courseSchema = z.object({
 		waitHours: z.number().nonnegative(),
 		generators: z.array(z.string()).min(1)
 	}),
+	/**
+	 * The shorter path that renews a certificate: the course test again and only the skills
+	 * marked `renewal: true`. It may start `opensDaysBefore` days before expiry and up to
+	 * `graceDays` after; the new certificate's validity continues from the old expiry date.
+	 */
+	renewal: z.object({
+		priceCents: z.number().int().nonnegative(),
+		opensDaysBefore: z.number().int().positive().max(365),
+		graceDays: z.number().int().nonnegative().max(365)
+	}),
 	practicalSkills: z
-		.array(z.object({ id: z.string().min(1), title: z.string().min(1), criteria: z.array(z.string().min(1)).min(1) }))
+		.array(
+			z.object({
+				id: z.string().min(1),
+				title: z.string().min(1),
+				criteria: z.array(z.string().min(1)).min(1),
+				/** Shown again to a trainer at every renewal (pressure and safety skills, for instance). */
+				renewal: z.boolean().default(false)
+			})
+		)
 		.min(1)
+		.refine((skills) => skills.some((s) => s.renewal), 'Mark at least one practical skill with renewal: true.')
 });
 
 /** Front matter of `content/courses/<slug>/lessons/<lesson>.md`. */

@@ -38,6 +38,7 @@ import {
 } from '$lib/practice/test-items';
 import { recordAudit } from './audit';
 import { issueIfEarned } from './certificates';
+import { countsSince } from './renewal-open';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import type { TestAttemptTable } from './db/schema';
 import { isEnrolled } from './enrolments';
@@ -243,6 +244,18 @@ async function settled(db: DB, row: Row, now: Date): Promise<Graded | { row: Row
 
 // ---------------------------------------------------------------- rules
 
+/** The person's attempts that count: during a renewal the test is taken afresh, so only those since it started. */
+async function countingAttempts(userId: string, courseSlug: string, db: DB): Promise<Row[]> {
+	const since = await countsSince(userId, courseSlug, db);
+	return (await db
+		.selectFrom('test_attempt')
+		.selectAll()
+		.where('user_id', '=', userId)
+		.where('course_slug', '=', courseSlug)
+		.$if(since !== null, (q) => q.where('started_at', '>=', since!))
+		.execute()) as Row[];
+}
+
 export interface TestStatus {
 	course: { slug: string; title: string; code: string };
 	rules: TestRules;
@@ -289,7 +302,7 @@ function evaluate(course: Course, rows: Row[], enrolled: boolean, now: Date): Om
 export async function testStatus(userId: string, courseSlug: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<TestStatus | null> {
 	const course = getCourse(courseSlug);
 	if (!course) return null;
-	const stored = (await db.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('course_slug', '=', courseSlug).execute()) as Row[];
+	const stored = await countingAttempts(userId, courseSlug, db);
 	const rows = await Promise.all(stored.map(async (r) => (await settled(db, r, now)).row));
 	const enrolled = await isEnrolled(userId, courseSlug, db);
 	return {
@@ -332,7 +345,7 @@ export async function startAttempt(
 	const attempt = async (): Promise<{ ok: true; resumed: boolean; attempt: RunnerView } | Refusal> =>
 		inTransaction(db, async (trx) => {
 			await closeExpired(trx, userId, now, courseSlug);
-			const rows = (await trx.selectFrom('test_attempt').selectAll().where('user_id', '=', userId).where('course_slug', '=', courseSlug).execute()) as Row[];
+			const rows = await countingAttempts(userId, courseSlug, trx);
 			const open = rows.find((r) => r.submitted_at === null);
 			if (open) return { ok: true, resumed: true, attempt: runnerView(open, await answersOf(trx, open.id), course, now) };
 			const status = evaluate(course, rows, true, now);

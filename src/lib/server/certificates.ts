@@ -6,6 +6,7 @@ import { signCredential } from './credential';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { isDatabaseBusy, isUniqueViolation } from './db/errors';
 import type { CertificateTable } from './db/schema';
+import { openRenewalOf } from './renewal-open';
 import { signedOffSkills } from './sign-offs';
 
 /**
@@ -196,7 +197,7 @@ export async function issueIfEarned(
 	const slot = slotOf(userId, courseSlug);
 	const attempt = () => inTransaction(db, async (trx): Promise<IssueOutcome> => {
 		const held = await trx.selectFrom('certificate').selectAll().where('slot', '=', slot).executeTakeFirst();
-		if (held) return { issued: false, reason: 'already-held', certificate: held };
+		if (held) return (await renewIfEarned(held, course, now, actorId, trx)) ?? { issued: false, reason: 'already-held', certificate: held };
 		const check = await checkRequirements(userId, course, { db: trx, now });
 		if (!check.met) return { issued: false, reason: 'requirements', check };
 		const person = await trx.selectFrom('User').select(['name', 'email']).where('id', '=', userId).executeTakeFirstOrThrow();
@@ -263,6 +264,104 @@ export async function issueAllEarned(userId: string, options: Options & { actorI
 		if (outcome.issued) issued.push(outcome.certificate);
 	}
 	return issued;
+}
+
+// ---------------------------------------------------------------- renewal
+
+const addDays = (isoDay: string, days: number) => isoDate(new Date(Date.parse(`${isoDay}T00:00:00Z`) + days * 86_400_000));
+
+/** The days a renewal of a certificate expiring on `expiresOn` may start and finish (inclusive). */
+export function renewalWindow(expiresOn: string, course: Pick<Course, 'renewal'>): { opensOn: string; closesOn: string } {
+	return { opensOn: addDays(expiresOn, -course.renewal.opensDaysBefore), closesOn: addDays(expiresOn, course.renewal.graceDays) };
+}
+
+export interface RenewalCheck {
+	met: boolean;
+	testOn: string | null;
+	practicalOn: string | null;
+	/** The skills the course marks for renewal, each signed off again since the renewal started or not. */
+	skills: { id: string; title: string; met: boolean }[];
+	trainers: { id: string; name: string }[];
+}
+
+/** What a renewal started at `since` still needs: a test passed and each renewal skill signed off since then. */
+export async function checkRenewal(userId: string, course: Course, since: string, db: DB = defaultDb): Promise<RenewalCheck> {
+	const passed = await db
+		.selectFrom('test_attempt')
+		.select('submitted_at')
+		.where('user_id', '=', userId)
+		.where('course_slug', '=', course.slug)
+		.where('passed', '=', 1)
+		.where('started_at', '>=', since)
+		.orderBy('submitted_at', 'desc')
+		.executeTakeFirst();
+	const signed = new Map((await signedOffSkills(userId, course.slug, db)).filter((s) => s.signedOffAt >= since).map((s) => [s.skillId, s]));
+	const renewalSkills = course.practicalSkills.filter((skill) => skill.renewal);
+	const counted = renewalSkills.map((skill) => signed.get(skill.id)).filter((s) => s !== undefined);
+	const skills = renewalSkills.map((skill) => ({ id: skill.id, title: skill.title, met: signed.has(skill.id) }));
+	return {
+		met: !!passed && skills.every((k) => k.met),
+		testOn: passed ? isoDate(passed.submitted_at!) : null,
+		practicalOn: counted.length ? isoDate(counted.map((k) => k.signedOffAt).sort().at(-1)!) : null,
+		skills,
+		trainers: [...new Map(counted.map((k) => [k.trainerId, { id: k.trainerId, name: k.trainerName }])).values()]
+	};
+}
+
+/**
+ * Completes the holder's renewal of `held` when its requirements are met inside the window:
+ * a new certificate takes the slot, valid from the old expiry date for the course's validity
+ * (not from today, so renewing early loses nothing); the old one answers "replaced by" it.
+ * Null when there is no renewal to complete. Runs inside issueIfEarned's transaction.
+ */
+async function renewIfEarned(held: CertificateRow, course: Course, now: Date, actorId: string | null, trx: DB): Promise<IssueOutcome | null> {
+	if (held.revoked_at || !held.user_id) return null;
+	const renewal = await openRenewalOf(held.user_id, course.slug, trx);
+	if (!renewal || renewal.certificate_id !== held.id) return null;
+	if (isoDate(now) > renewalWindow(held.expires_on, course).closesOn) return null;
+	const check = await checkRenewal(held.user_id, course, renewal.started_at, trx);
+	if (!check.met) return { issued: false, reason: 'requirements', certificate: held };
+	await trx.updateTable('certificate').set({ slot: null }).where('id', '=', held.id).execute();
+	const person = await trx.selectFrom('User').select(['name', 'email']).where('id', '=', held.user_id).executeTakeFirstOrThrow();
+	const fresh = await insertCertificate(
+		{
+			slot: held.slot,
+			user_id: held.user_id,
+			course_slug: course.slug,
+			holder_name: person.name?.trim() || person.email,
+			course_code: course.code,
+			course_title: course.title,
+			scope: course.certificateScope,
+			diameter_min_mm: course.diameterRangeMm[0],
+			diameter_max_mm: course.diameterRangeMm[1],
+			practical_on: check.practicalOn!,
+			test_on: check.testOn!,
+			expires_on: addMonths(held.expires_on, course.validityMonths),
+			trainers: JSON.stringify(check.trainers),
+			issuer_name: config.issuerName,
+			replaces_id: held.id
+		},
+		now,
+		trx
+	);
+	if (!fresh) throw new Error('The renewed certificate could not take its slot.');
+	await trx.updateTable('certificate').set({ replaced_by_id: fresh.id }).where('id', '=', held.id).execute();
+	const done = await trx
+		.updateTable('renewal')
+		.set({ completed_at: now.toISOString(), new_certificate_id: fresh.id })
+		.where('id', '=', renewal.id)
+		.where('completed_at', 'is', null)
+		.executeTakeFirst();
+	if (Number(done.numUpdatedRows) !== 1) throw new Error('The renewal changed meanwhile.');
+	await recordAudit(
+		{ actorId, action: 'renewal.complete', subjectType: 'certificate', subjectId: held.id, detail: { number: held.number, replacedBy: fresh.number, courseSlug: course.slug, userId: held.user_id, expiresOn: fresh.expires_on } },
+		trx
+	);
+	await recordAudit(
+		{ actorId, action: 'certificate.issue', subjectType: 'certificate', subjectId: fresh.id, detail: { number: fresh.number, userId: held.user_id, courseSlug: course.slug, expiresOn: fresh.expires_on, renews: held.number } },
+		trx
+	);
+	return { issued: true, certificate: fresh };
 }
 
 // ---------------------------------------------------------------- status

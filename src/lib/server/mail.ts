@@ -20,6 +20,8 @@ export interface MailContent {
 	paragraphs: string[];
 	action?: { label: string; url: string };
 	footnote?: string;
+	/** A fixed Message-ID, so a repeat of the same message can be recognised. */
+	messageId?: string;
 }
 
 export async function sendMail(content: MailContent): Promise<void> {
@@ -27,6 +29,7 @@ export async function sendMail(content: MailContent): Promise<void> {
 		from: config.mailFrom,
 		to: content.to,
 		subject: content.subject,
+		...(content.messageId ? { messageId: content.messageId } : {}),
 		text: renderText(content),
 		html: renderHtml(content)
 	});

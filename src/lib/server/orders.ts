@@ -7,7 +7,7 @@ import { recordAudit } from './audit';
 import { paymentSettings } from './config';
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { isUniqueViolation } from './db/errors';
-import type { OrderState } from './db/schema';
+import type { OrderState, SeatProduct } from './db/schema';
 import { isEnrolled } from './enrolments';
 import { paymentClient, paymentErrorMessage } from './payments';
 import { createSeats, removeSeatEnrolment } from './seats';
@@ -36,6 +36,7 @@ const orderColumns = [
 	'course_order.buyer_id',
 	'course_order.company_id',
 	'course_order.course_slug',
+	'course_order.product',
 	'course_order.quantity',
 	'course_order.unit_amount',
 	'course_order.total_amount',
@@ -61,6 +62,19 @@ export class OrderRefused extends Error {
 	}
 }
 
+/** Whether the person holds a current (not revoked, not replaced) certificate of the course. */
+export async function holdsCertificateOf(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
+	const row = await db
+		.selectFrom('certificate')
+		.select('id')
+		.where('user_id', '=', userId)
+		.where('course_slug', '=', courseSlug)
+		.where('slot', 'is not', null)
+		.where('revoked_at', 'is', null)
+		.executeTakeFirst();
+	return !!row;
+}
+
 /** An order number people can read out: year and eight letters and digits without look-alikes. */
 function newOrderNumber(): string {
 	const alphabet = '23456789ABCDEFGHJKLMNPQRSTUVWXYZ';
@@ -73,6 +87,8 @@ export interface OrderRequest {
 	quantity: number;
 	/** The company buying; null for a person buying one seat for themselves. */
 	companyId: string | null;
+	/** The full course (default) or the shorter renewal path, at the course's renewal price. */
+	product?: SeatProduct;
 }
 
 /**
@@ -83,14 +99,20 @@ export async function startOrder(buyer: Identity, request: OrderRequest, origin:
 	const course = getCourse(request.courseSlug);
 	if (!course) throw new OrderRefused('There is no such course.', 404, 'course');
 	if (!Number.isSafeInteger(request.quantity) || request.quantity < 1) throw new OrderRefused('Buy at least one seat.', 400, 'quantity');
+	const product: SeatProduct = request.product ?? 'course';
+	if (product !== 'course' && product !== 'renewal') throw new OrderRefused('Buy a course seat or a renewal seat.', 400, 'product');
+	const unitAmount = product === 'renewal' ? course.renewal.priceCents : course.priceCents;
 	if (request.companyId) {
 		if (!isCompanyAdmin(buyer, request.companyId)) throw new OrderRefused('Only an admin of that company can buy its seats.', 403, 'companyId');
 		if (request.quantity > MAX_SEATS_PER_ORDER) throw new OrderRefused(`Buy at most ${MAX_SEATS_PER_ORDER} seats in one order.`, 400, 'quantity');
 	} else {
 		if (request.quantity !== 1) throw new OrderRefused('A person buys one seat for themselves.', 400, 'quantity');
-		if (await isEnrolled(buyer.id, course.slug, db)) throw new OrderRefused('You already have a seat on this course.', 409, 'course');
+		if (product === 'course' && (await isEnrolled(buyer.id, course.slug, db))) throw new OrderRefused('You already have a seat on this course.', 409, 'course');
+		if (product === 'renewal' && !(await holdsCertificateOf(buyer.id, course.slug, db))) {
+			throw new OrderRefused('A renewal seat is for someone who holds this course\u2019s certificate.', 409, 'course');
+		}
 	}
-	if (course.priceCents <= 0) throw new OrderRefused('This course has no price to pay.', 409, 'course');
+	if (unitAmount <= 0) throw new OrderRefused('This course has no price to pay.', 409, 'course');
 
 	const now = new Date().toISOString();
 	const order = {
@@ -99,9 +121,10 @@ export async function startOrder(buyer: Identity, request: OrderRequest, origin:
 		buyer_id: buyer.id,
 		company_id: request.companyId,
 		course_slug: course.slug,
+		product,
 		quantity: request.quantity,
-		unit_amount: course.priceCents,
-		total_amount: course.priceCents * request.quantity,
+		unit_amount: unitAmount,
+		total_amount: unitAmount * request.quantity,
 		currency: course.currency.toUpperCase(),
 		state: 'open' as OrderState,
 		checkout_session_id: null,
@@ -116,7 +139,7 @@ export async function startOrder(buyer: Identity, request: OrderRequest, origin:
 	if (!Number.isSafeInteger(order.total_amount)) throw new OrderRefused('That total is too large.', 400, 'quantity');
 	await inTransaction(db, async (trx) => {
 		await trx.insertInto('course_order').values(order).execute();
-		await recordAudit({ actorId: buyer.id, action: 'order.create', subjectType: 'order', subjectId: order.id, detail: { number: order.number, courseSlug: order.course_slug, quantity: order.quantity, totalAmount: order.total_amount, currency: order.currency, companyId: order.company_id } }, trx);
+		await recordAudit({ actorId: buyer.id, action: 'order.create', subjectType: 'order', subjectId: order.id, detail: { number: order.number, courseSlug: order.course_slug, product, quantity: order.quantity, totalAmount: order.total_amount, currency: order.currency, companyId: order.company_id } }, trx);
 	});
 
 	let session: Stripe.Checkout.Session;
@@ -127,7 +150,7 @@ export async function startOrder(buyer: Identity, request: OrderRequest, origin:
 				line_items: [
 					{
 						quantity: order.quantity,
-						price_data: { currency: order.currency.toLowerCase(), unit_amount: order.unit_amount, product_data: { name: `${course.title} (${course.code}), one seat` } }
+						price_data: { currency: order.currency.toLowerCase(), unit_amount: order.unit_amount, product_data: { name: `${course.title} (${course.code}), ${product === 'renewal' ? 'one renewal seat' : 'one seat'}` } }
 					}
 				],
 				client_reference_id: order.id,
@@ -283,7 +306,7 @@ async function applyOnce(event: Pick<Stripe.Event, 'id' | 'type' | 'data'>, db: 
 		const moved = await setState(null, order.id, 'open', 'paid', { eventId: event.id, paymentIntent }, db, { paid_at: new Date().toISOString(), ...(paymentIntent ? { payment_intent_id: paymentIntent } : {}) });
 		if (!moved) return { status: 200, outcome: 'ignored: order changed meanwhile' };
 		await createSeats(order, db);
-		await recordAudit({ actorId: null, action: 'seat.grant', subjectType: 'order', subjectId: order.id, detail: { quantity: order.quantity, courseSlug: order.course_slug, companyId: order.company_id } }, db);
+		await recordAudit({ actorId: null, action: 'seat.grant', subjectType: 'order', subjectId: order.id, detail: { quantity: order.quantity, courseSlug: order.course_slug, product: order.product, companyId: order.company_id } }, db);
 		return { status: 200, outcome: `paid: ${order.quantity} seats granted` };
 	}
 
@@ -316,7 +339,7 @@ async function applyOnce(event: Pick<Stripe.Event, 'id' | 'type' | 'data'>, db: 
  * Brings the order's refunded seats up to the service's cumulative refunded amount. The
  * amount is cumulative, so events settled in any order or twice end in the same ledger.
  */
-async function settleRefund(order: { id: string; quantity: number; unit_amount: number; total_amount: number; refunded_quantity: number; refunded_amount: number; state: OrderState; course_slug: string }, amountRefunded: number, eventId: string, db: DB): Promise<EventOutcome> {
+async function settleRefund(order: { id: string; product: SeatProduct; quantity: number; unit_amount: number; total_amount: number; refunded_quantity: number; refunded_amount: number; state: OrderState; course_slug: string }, amountRefunded: number, eventId: string, db: DB): Promise<EventOutcome> {
 	if (amountRefunded <= order.refunded_amount) return { status: 200, outcome: 'ignored: refund already settled' };
 	const seatsRefunded = amountRefunded >= order.total_amount ? order.quantity : Math.floor(amountRefunded / order.unit_amount);
 	const newSeats = Math.max(0, seatsRefunded - order.refunded_quantity);
@@ -334,7 +357,7 @@ async function settleRefund(order: { id: string; quantity: number; unit_amount: 
 	const at = new Date().toISOString();
 	for (const seat of unused) {
 		await db.updateTable('seat').set({ refunded_at: at }).where('id', '=', seat.id).execute();
-		if (seat.holder_id) await removeSeatEnrolment(null, seat.holder_id, order.course_slug, db);
+		if (seat.holder_id && order.product === 'course') await removeSeatEnrolment(null, seat.holder_id, order.course_slug, db);
 	}
 	if (unused.length < newSeats) {
 		await recordAudit({ actorId: null, action: 'order.refund-short', subjectType: 'order', subjectId: order.id, detail: { eventId, wanted: newSeats, unusedFound: unused.length } }, db);
@@ -406,6 +429,7 @@ export function orderView(order: OrderRow) {
 		state: order.state,
 		stateLabel: orderStateLabels[order.state],
 		course: { slug: order.course_slug, title: course?.title ?? order.course_slug, code: course?.code ?? '' },
+		product: order.product,
 		company: order.company_id ? { id: order.company_id, name: order.company_name } : null,
 		buyer: { name: order.buyer_name, email: order.buyer_email },
 		quantity: order.quantity,

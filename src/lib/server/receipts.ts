@@ -46,7 +46,7 @@ export async function renderReceiptPdf(order: OrderView, locale = 'en-GB'): Prom
 		['Buyer', `${order.buyer.name ?? ''} <${order.buyer.email}>`.trim()],
 		...(order.company ? ([['Company', order.company.name ?? '']] as [string, string][]) : []),
 		['Course', `${order.course.title} (${order.course.code})`],
-		['Quantity', `${order.quantity} ${order.quantity === 1 ? 'seat' : 'seats'}`],
+		['Quantity', `${order.quantity} ${order.product === 'renewal' ? 'renewal ' : ''}${order.quantity === 1 ? 'seat' : 'seats'}`],
 		['Unit price', money(order.unitAmount)],
 		['Total paid', money(order.totalAmount)]
 	];

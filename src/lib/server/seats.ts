@@ -1,12 +1,16 @@
 import { getCourse } from '$lib/content';
 import { recordAudit } from './audit';
 import { db as defaultDb, inTransaction, type DB } from './db';
+import type { SeatProduct } from './db/schema';
 import { enrol } from './enrolments';
 
 /**
  * Seats: one row per paid place on a course. A seat is bought (its order paid), assigned when it
  * has a holder, in use from the first paid lesson the holder opens, and refunded when the
  * payment service confirms a refund. Free = bought − assigned − invitations still open.
+ * Course seats (product 'course') give a place on a course; renewal seats (product 'renewal',
+ * see renewals.ts) are taken and used at once when a holder starts a renewal. Everything below
+ * but `renewalSeatLedger` is about course seats.
  */
 
 export interface SeatLedgerLine {
@@ -23,15 +27,17 @@ const nowIso = () => new Date().toISOString();
 
 /** Creates `quantity` seats for a paid order. Part of the order's transaction. */
 export async function createSeats(
-	order: { id: string; company_id: string | null; course_slug: string; quantity: number; buyer_id: string },
+	order: { id: string; company_id: string | null; course_slug: string; quantity: number; buyer_id: string; product?: SeatProduct },
 	db: DB
 ): Promise<void> {
+	const product = order.product ?? 'course';
 	const at = nowIso();
 	const rows = Array.from({ length: order.quantity }, () => ({
 		id: crypto.randomUUID(),
 		order_id: order.id,
 		company_id: order.company_id,
 		course_slug: order.course_slug,
+		product,
 		// A seat bought for oneself is assigned to the buyer at once.
 		holder_id: order.company_id ? null : order.buyer_id,
 		assigned_at: order.company_id ? null : at,
@@ -40,7 +46,8 @@ export async function createSeats(
 		created_at: at
 	}));
 	for (let i = 0; i < rows.length; i += 100) await db.insertInto('seat').values(rows.slice(i, i + 100)).execute();
-	if (!order.company_id) await enrol(order.buyer_id, order.buyer_id, order.course_slug, 'seat', db);
+	// A renewal seat needs no enrolment: its holder is enrolled already, and it is used when the renewal starts.
+	if (!order.company_id && product === 'course') await enrol(order.buyer_id, order.buyer_id, order.course_slug, 'seat', db);
 }
 
 /** Open invitations per course for a company (not accepted, withdrawn or expired). */
@@ -68,6 +75,7 @@ export async function seatLedger(companyId: string, db: DB = defaultDb): Promise
 			eb.fn.count<number>('used_at').as('in_use')
 		])
 		.where('company_id', '=', companyId)
+		.where('product', '=', 'course')
 		.where('refunded_at', 'is', null)
 		.groupBy('course_slug')
 		.execute();
@@ -102,6 +110,7 @@ export function listAssignedSeats(companyId: string, db: DB = defaultDb) {
 		.innerJoin('User', 'User.id', 'seat.holder_id')
 		.select(['seat.id', 'seat.course_slug', 'seat.assigned_at', 'seat.used_at', 'User.id as holder_id', 'User.name as holder_name', 'User.email as holder_email'])
 		.where('seat.company_id', '=', companyId)
+		.where('seat.product', '=', 'course')
 		.where('seat.refunded_at', 'is', null)
 		.orderBy('seat.course_slug')
 		.orderBy('User.name')
@@ -114,12 +123,18 @@ export function listAssignedSeats(companyId: string, db: DB = defaultDb) {
  * id or null when none is free.
  */
 export async function claimSeat(companyId: string, courseSlug: string, userId: string, db: DB): Promise<string | null> {
+	return claimFree([companyId], courseSlug, 'course', userId, null, db);
+}
+
+/** Takes the oldest free seat of the product for one of the companies; `usedAt` also marks it in use. */
+async function claimFree(companyIds: string[], courseSlug: string, product: SeatProduct, userId: string, usedAt: string | null, db: DB): Promise<string | null> {
 	for (let tries = 0; tries < 5; tries++) {
 		const candidate = await db
 			.selectFrom('seat')
 			.select('id')
-			.where('company_id', '=', companyId)
+			.where('company_id', 'in', companyIds)
 			.where('course_slug', '=', courseSlug)
+			.where('product', '=', product)
 			.where('holder_id', 'is', null)
 			.where('refunded_at', 'is', null)
 			.orderBy('created_at')
@@ -128,7 +143,7 @@ export async function claimSeat(companyId: string, courseSlug: string, userId: s
 		if (!candidate) return null;
 		const result = await db
 			.updateTable('seat')
-			.set({ holder_id: userId, assigned_at: nowIso() })
+			.set({ holder_id: userId, assigned_at: usedAt ?? nowIso(), ...(usedAt ? { used_at: usedAt } : {}) })
 			.where('id', '=', candidate.id)
 			.where('holder_id', 'is', null)
 			.where('refunded_at', 'is', null)
@@ -162,6 +177,7 @@ async function unusedSeatId(userId: string, courseSlug: string, db: DB): Promise
 		.select('id')
 		.where('holder_id', '=', userId)
 		.where('course_slug', '=', courseSlug)
+		.where('product', '=', 'course')
 		.where('refunded_at', 'is', null)
 		.where('used_at', 'is', null)
 		.executeTakeFirst();
@@ -181,6 +197,7 @@ export async function takeBackSeat(actorId: string, companyId: string, seatId: s
 			.select(['id', 'holder_id', 'used_at', 'course_slug'])
 			.where('id', '=', seatId)
 			.where('company_id', '=', companyId)
+			.where('product', '=', 'course')
 			.where('refunded_at', 'is', null)
 			.executeTakeFirst();
 		if (!seat || !seat.holder_id) return { ok: false, message: 'That seat is not assigned to anyone.' };
@@ -212,6 +229,7 @@ export async function removeSeatEnrolment(actorId: string | null, userId: string
 		.select('id')
 		.where('holder_id', '=', userId)
 		.where('course_slug', '=', courseSlug)
+		.where('product', '=', 'course')
 		.where('refunded_at', 'is', null)
 		.executeTakeFirst();
 	if (another) return;
@@ -224,4 +242,62 @@ export async function removeSeatEnrolment(actorId: string | null, userId: string
 	if (Number(result.numDeletedRows) > 0) {
 		await recordAudit({ actorId, action: 'enrolment.remove', subjectType: 'user', subjectId: userId, detail: { courseSlug, source: 'seat' } }, db);
 	}
+}
+
+export interface RenewalSeatLine {
+	courseSlug: string;
+	courseTitle: string;
+	bought: number;
+	used: number;
+	free: number;
+}
+
+/** The company's renewal seats per course: bought, used by a started renewal, and free. */
+export async function renewalSeatLedger(companyId: string, db: DB = defaultDb): Promise<RenewalSeatLine[]> {
+	const rows = await db
+		.selectFrom('seat')
+		.select((eb) => ['course_slug', eb.fn.countAll<number>().as('bought'), eb.fn.count<number>('holder_id').as('used')])
+		.where('company_id', '=', companyId)
+		.where('product', '=', 'renewal')
+		.where('refunded_at', 'is', null)
+		.groupBy('course_slug')
+		.orderBy('course_slug')
+		.execute();
+	return rows.map((r) => ({
+		courseSlug: r.course_slug,
+		courseTitle: getCourse(r.course_slug)?.title ?? r.course_slug,
+		bought: Number(r.bought),
+		used: Number(r.used),
+		free: Math.max(0, Number(r.bought) - Number(r.used))
+	}));
+}
+
+/** An unused renewal seat the person bought for themselves. */
+export function ownRenewalSeat(userId: string, courseSlug: string, db: DB = defaultDb) {
+	return db
+		.selectFrom('seat')
+		.select('id')
+		.where('holder_id', '=', userId)
+		.where('course_slug', '=', courseSlug)
+		.where('product', '=', 'renewal')
+		.where('refunded_at', 'is', null)
+		.where('used_at', 'is', null)
+		.orderBy('created_at')
+		.executeTakeFirst();
+}
+
+/**
+ * Takes a renewal seat for a holder starting a renewal: one they bought for themselves, else a
+ * free one of a company they belong to. The guarded update keeps two claims off one seat.
+ * Marks it used at once. Returns the seat id, or null when there is none.
+ */
+export async function takeRenewalSeat(userId: string, courseSlug: string, now: Date, db: DB): Promise<string | null> {
+	const at = now.toISOString();
+	const own = await ownRenewalSeat(userId, courseSlug, db);
+	if (own) {
+		const used = await db.updateTable('seat').set({ used_at: at }).where('id', '=', own.id).where('used_at', 'is', null).executeTakeFirst();
+		if (Number(used.numUpdatedRows) === 1) return own.id;
+	}
+	const companies = (await db.selectFrom('membership').select('company_id').where('user_id', '=', userId).execute()).map((m) => m.company_id);
+	return companies.length ? claimFree(companies, courseSlug, 'renewal', userId, at, db) : null;
 }

@@ -2,7 +2,8 @@ import { requireUser } from '$lib/server/authz';
 import { crewProgress, registrarCounts, traineeStandings, trainerDesk } from '$lib/server/dashboard';
 import { listOrdersFor, orderView } from '$lib/server/orders';
 import { seatLedger } from '$lib/server/seats';
-import { listCertificatesOf } from '$lib/server/certificates';
+import { listCertificatesOf, listWaitingForOne } from '$lib/server/certificates';
+import { crewExpiringSoon, expiringCertificatesOf } from '$lib/server/renewals';
 import { config } from '$lib/server/config';
 import { recentCrewChecks } from '$lib/server/crew-checks';
 import { queueCount } from '$lib/server/sign-offs';
@@ -13,7 +14,7 @@ export const load: PageServerLoad = async (event) => {
 	const user = requireUser(event);
 	const adminOf = user.companies.filter((c) => c.role === 'admin');
 	const staff = user.roles.includes('trainer') || user.roles.includes('registrar');
-	const [standings, companies, desk, practicalQueue, counts, certificates, recentChecks, orders] = await Promise.all([
+	const [standings, companies, desk, practicalQueue, counts, certificates, recentChecks, orders, expiring, waiting] = await Promise.all([
 		traineeStandings(user.id),
 		Promise.all(
 			adminOf.map(async (c) => {
@@ -24,7 +25,8 @@ export const load: PageServerLoad = async (event) => {
 					memberCount: crew.length,
 					enrolledCount: crew.filter((m) => m.courses.length > 0).length,
 					passedCount: crew.reduce((n, m) => n + m.courses.filter((k) => k.testPassed).length, 0),
-					seats: await seatLedger(c.id)
+					seats: await seatLedger(c.id),
+					expiring: (await crewExpiringSoon(c.id)).map(({ userId, name, email, courseCode, expiresOn, daysLeft }) => ({ userId, name, email, courseCode, expiresOn, daysLeft }))
 				};
 			})
 		),
@@ -33,7 +35,11 @@ export const load: PageServerLoad = async (event) => {
 		user.roles.includes('registrar') ? registrarCounts() : null,
 		listCertificatesOf(user.id),
 		user.roles.includes('inspector') ? recentCrewChecks(user.id, 3) : [],
-		listOrdersFor(user).then((o) => o.slice(0, 3).map(orderView))
+		listOrdersFor(user).then((o) => o.slice(0, 3).map(orderView)),
+		expiringCertificatesOf(user.id),
+		user.roles.includes('registrar')
+			? listWaitingForOne().then((w) => w.map(({ userId, name, email, courseTitle, missing }) => ({ userId, name, email, courseTitle, missing: { detail: missing.detail } })))
+			: []
 	]);
-	return { standings, companies, desk, practicalQueue, counts, certificates, origin: config.origin, recentChecks, orders };
+	return { standings, companies, desk, practicalQueue, counts, certificates, origin: config.origin, recentChecks, orders, expiring, waiting };
 };

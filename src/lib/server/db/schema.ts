@@ -317,6 +317,8 @@ export interface Database {
 	certificate_file: CertificateFileTable;
 	crew_check: CrewCheckTable;
 	job_lease: JobLeaseTable;
+	certificate_reminder: CertificateReminderTable;
+	renewal: RenewalTable;
 }
 
 export type User = Selectable<UserTable>;
@@ -325,6 +327,35 @@ export type UserUpdate = Updateable<UserTable>;
 export type Company = Selectable<CompanyTable>;
 export type Membership = Selectable<MembershipTable>;
 export type AuditEntry = Selectable<AuditLogTable>;
+
+/** An expiry reminder claimed (sent_at null) or handed to the mail server; one per certificate, threshold and address. */
+export interface CertificateReminderTable {
+	id: string;
+	certificate_id: string;
+	/** 60, 30 or 7: the days before expiry this reminder is for. */
+	threshold_days: number;
+	recipient_email: string;
+	recipient_id: string | null;
+	recipient_role: 'holder' | 'company admin';
+	claimed_at: string;
+	sent_at: string | null;
+	attempts: number;
+}
+
+/** A holder's renewal of one certificate, completed by the certificate that replaces it. */
+export interface RenewalTable {
+	id: string;
+	certificate_id: string;
+	user_id: string;
+	course_slug: string;
+	seat_id: string | null;
+	started_at: string;
+	completed_at: string | null;
+	new_certificate_id: string | null;
+}
+
+/** What an order or a seat buys: the full course or the shorter renewal path. */
+export type SeatProduct = 'course' | 'renewal';
 
 export type OrderState = 'open' | 'paid' | 'expired' | 'cancelled' | 'refunded' | 'partly refunded';
 
@@ -337,6 +368,7 @@ export interface CourseOrderTable {
 	/** Null when a person buys a seat for themselves. */
 	company_id: string | null;
 	course_slug: string;
+	product: Generated<SeatProduct>;
 	quantity: number;
 	unit_amount: number;
 	total_amount: number;
@@ -359,6 +391,7 @@ export interface SeatTable {
 	order_id: string;
 	company_id: string | null;
 	course_slug: string;
+	product: Generated<SeatProduct>;
 	holder_id: string | null;
 	assigned_at: string | null;
 	used_at: string | null;

@@ -5,7 +5,8 @@ import { courses } from '$lib/content';
 import { requireCompanyAdmin } from '$lib/server/authz';
 import { failWith, parseForm } from '$lib/server/form';
 import { checkInvitations, courseRefs, inviteCrew, listOpenInvitations, rowsFromInput, withdrawInvitation } from '$lib/server/invitations';
-import { listAssignedSeats, seatLedger, takeBackSeat } from '$lib/server/seats';
+import { listAssignedSeats, renewalSeatLedger, seatLedger, takeBackSeat } from '$lib/server/seats';
+import { crewExpiringSoon } from '$lib/server/renewals';
 import { MAX_ROSTER_BYTES, parseRoster } from '$lib/roster';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
@@ -21,7 +22,13 @@ function companyFor(event: RequestEvent | Parameters<PageServerLoad>[0]) {
 
 export const load: PageServerLoad = async (event) => {
 	const { company, adminOf } = companyFor(event);
-	const [ledger, seats, invitations] = await Promise.all([seatLedger(company.id), listAssignedSeats(company.id), listOpenInvitations(company.id)]);
+	const [ledger, seats, invitations, renewalSeats, expiring] = await Promise.all([
+		seatLedger(company.id),
+		listAssignedSeats(company.id),
+		listOpenInvitations(company.id),
+		renewalSeatLedger(company.id),
+		crewExpiringSoon(company.id, { days: 90 })
+	]);
 	const title = (slug: string) => courses.find((c) => c.slug === slug)?.title ?? slug;
 	return {
 		company: { id: company.id, name: company.name },
@@ -29,7 +36,9 @@ export const load: PageServerLoad = async (event) => {
 		ledger,
 		seats: seats.map((s) => ({ id: s.id, course: title(s.course_slug), name: s.holder_name, email: s.holder_email, inUse: !!s.used_at, assignedAt: s.assigned_at })),
 		invitations: invitations.map((i) => ({ id: i.id, name: i.name, email: i.email, course: title(i.course_slug), expiresAt: i.expires_at })),
-		courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code }))
+		courses: courses.map((c) => ({ slug: c.slug, title: c.title, code: c.code })),
+		renewalSeats,
+		expiring: expiring.map((e) => ({ userId: e.userId, name: e.name ?? e.email, courseCode: e.courseCode, expiresOn: e.expiresOn, daysLeft: e.daysLeft }))
 	};
 };
 
