@@ -10,7 +10,9 @@ export default defineConfig({
 	test: {
 		include: ['src/**/*.test.ts', 'tests/unit/**/*.test.ts'],
 		environment: 'node',
-		testTimeout: 20_000,
+		// PostgreSQL engines (TEST_DB=pglite|postgres) start a server or a WebAssembly instance first
+		testTimeout: process.env.TEST_DB && process.env.TEST_DB !== 'sqlite' ? 120_000 : 20_000,
+		hookTimeout: process.env.TEST_DB && process.env.TEST_DB !== 'sqlite' ? 120_000 : 10_000,
 		fileParallelism: true
 	}
 });

@@ -5,7 +5,7 @@ import { apiError, apiGuard, errorIds, isApiPath } from '$lib/server/api';
 import { authHandle, authSecret } from '$lib/server/auth';
 import { ConfigError, loadConfig } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
-import { DataDirError } from '$lib/server/db/connect';
+import { DataDirError } from '$lib/server/db/engine';
 import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';

@@ -7,7 +7,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { Migrator, type Kysely, type Migration } from 'kysely';
 import { listAudit } from '$lib/server/audit';
 import { closeDueAttempts, getAttempt, hasPassedTest, reviewAttempt, saveAnswer, startAttempt, submitAttempt, testStatus } from '$lib/server/attempts';
-import { openDatabase } from '$lib/server/db/connect';
+import { openDatabase } from '$lib/server/db/engine';
 import { enrol } from '$lib/server/enrolments';
 import { createUser } from '$lib/server/users';
 import type { DrawnItem } from '$lib/practice/test-items';

@@ -4,7 +4,7 @@ import { afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { getCourse } from '$lib/content';
 import { listAudit } from '$lib/server/audit';
 import { addMonths, checkNumbers, findCertificate, issueIfEarned, listWaitingForOne, reissueWithName, revokeCertificate } from '$lib/server/certificates';
-import { openDatabase } from '$lib/server/db/connect';
+import { openDatabase } from '$lib/server/db/engine';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { recordPassedTest, recordSignOffs, recordWaitingEvidence } from '$lib/server/demo-certificates';
 import { enrol } from '$lib/server/enrolments';

@@ -2,7 +2,7 @@ import Database from 'better-sqlite3';
 import { RateLimiterRes, RateLimiterSQLite } from 'rate-limiter-flexible';
 import { apiError } from './api';
 import { config } from './config';
-import { ensureWritableDir } from './db/connect';
+import { ensureWritableDir } from './db/engine';
 
 /**
  * Fixed-window rate limits kept by rate-limiter-flexible in a SQLite table of their own file
