@@ -90,7 +90,15 @@ function schemaDialect(schema: string, onDestroy: () => Promise<void>): Dialect 
 	return {
 		createAdapter: () => new PostgresAdapter(),
 		createDriver: () => new SchemaDriver(schema, onDestroy),
-		createIntrospector: (db) => new PostgresIntrospector(db),
+		createIntrospector: (db) => {
+			// Only this test database's own tables: the migrator looks for its tables by name.
+			const all = new PostgresIntrospector(db);
+			return {
+				getSchemas: () => all.getSchemas(),
+				getMetadata: async (options) => ({ tables: (await all.getMetadata(options)).tables.filter((t) => t.schema === schema) }),
+				getTables: async (options) => (await all.getTables(options)).filter((t) => t.schema === schema)
+			};
+		},
 		createQueryCompiler: () => new PostgresQueryCompiler()
 	};
 }
