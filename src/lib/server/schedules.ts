@@ -1,5 +1,6 @@
 import { Cron } from 'croner';
 import { closeDueAttempts } from './attempts';
+import { sweepEndedWindows } from './rate-limit';
 
 /**
  * Jobs that run while the server is up. Closing due test attempts is idempotent (a guarded
@@ -10,5 +11,9 @@ export function startSchedules(): Cron[] {
 		const closed = await closeDueAttempts();
 		if (closed > 0) console.log(`Closed ${closed} test attempt(s) past their time limit.`);
 	});
-	return [closeDue];
+	// Rate-limit windows in the main database (PostgreSQL only): deleting ended ones twice is harmless.
+	const sweepLimits = new Cron('17 * * * *', { protect: true, catch: (e) => console.error('Sweeping rate-limit windows failed:', e) }, async () => {
+		await sweepEndedWindows();
+	});
+	return [closeDue, sweepLimits];
 }

@@ -1,6 +1,7 @@
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { isUniqueViolation } from './db/errors';
 import { hashPassword, verifyPassword } from './passwords';
+import { containsText } from './db/engine';
 
 /** E-mail addresses are compared lower-cased and trimmed everywhere. */
 export function normaliseEmail(email: string): string {
@@ -108,11 +109,11 @@ export async function dropUnconfirmedPassword(userId: string, db: DB = defaultDb
 }
 
 export function searchUsers(query: string, db: DB = defaultDb) {
-	const pattern = `%${query.trim().toLowerCase()}%`;
+	const text = query.trim();
 	return db
 		.selectFrom('User')
 		.select(publicColumns)
-		.where((eb) => eb.or([eb('email', 'like', pattern), eb(eb.fn('lower', ['name']), 'like', pattern)]))
+		.where((eb) => eb.or([containsText(eb, eb.ref('email'), text), containsText(eb, eb.ref('name'), text)]))
 		.orderBy('email')
 		.limit(50)
 		.execute();

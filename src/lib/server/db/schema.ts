@@ -308,6 +308,15 @@ export interface Database {
 	certificate: CertificateTable;
 	certificate_file: CertificateFileTable;
 	crew_check: CrewCheckTable;
+	rate_limit_count: RateLimitCountTable;
+}
+
+/** One rate-limit window per bucket and key, when the database is PostgreSQL (see rate-limit.ts). */
+export interface RateLimitCountTable {
+	key: string;
+	points: number;
+	/** End of the window, epoch milliseconds. */
+	expire_ms: number;
 }
 
 export type User = Selectable<UserTable>;
