@@ -8,7 +8,8 @@ export default defineConfig({
 		fs: { allow: ['content', 'migrations'] }
 	},
 	test: {
-		include: ['src/**/*.test.ts', 'tests/unit/**/*.test.ts'],
+		// SCALE_TESTS=1: the two-process test against the built app and a PostgreSQL server (test-all)
+		include: process.env.SCALE_TESTS === '1' ? ['tests/scale/**/*.test.ts'] : ['src/**/*.test.ts', 'tests/unit/**/*.test.ts'],
 		environment: 'node',
 		// PostgreSQL engines (TEST_DB=pglite|postgres) start a server or a WebAssembly instance first
 		testTimeout: process.env.TEST_DB && process.env.TEST_DB !== 'sqlite' ? 120_000 : 20_000,

@@ -1,18 +1,15 @@
 import fs from 'node:fs';
-import path from 'node:path';
 import { afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { getCourse } from '$lib/content';
 import { listAudit } from '$lib/server/audit';
 import { addMonths, checkNumbers, findCertificate, issueIfEarned, listWaitingForOne, reissueWithName, revokeCertificate } from '$lib/server/certificates';
-import { openDatabase } from '$lib/server/db/engine';
-import { migrateToLatest } from '$lib/server/db/migrate';
 import { recordPassedTest, recordSignOffs, recordWaitingEvidence } from '$lib/server/demo-certificates';
 import { enrol } from '$lib/server/enrolments';
 import { seedDemo } from '$lib/server/demo-seed';
 import { assessSubmission } from '$lib/server/sign-offs';
 import { listCertificatesForRegistrar } from '$lib/server/certificates';
 import { issuerKeyFile } from '$lib/server/issuer-key';
-import { createTestDb } from '../helpers/db';
+import { createSharedTestDbs, createTestDb, destroyAll } from '../helpers/db';
 import { makeTraineeAndTrainer, useTemporaryDataDir } from '../helpers/certificates';
 
 const day = (iso: string) => new Date(`${iso}T10:00:00Z`);
@@ -110,10 +107,8 @@ describe('certificate issuance', () => {
 	});
 
 	it('two requests racing over separate connections make exactly one certificate', async () => {
-		const file = path.join(dataDir, `race-${crypto.randomUUID()}.sqlite`);
-		const a = openDatabase(file);
-		await migrateToLatest(a);
-		const b = openDatabase(file);
+		// two handles with connections of their own on one database, as two processes have
+		const [a, b] = await createSharedTestDbs(2);
 		const { trainee, trainer } = await makeTraineeAndTrainer(a, BASIC);
 		await recordPassedTest(trainee.id, BASIC, day('2026-10-01'), a);
 		await recordSignOffs(trainee.id, BASIC, trainer, day('2026-10-02'), a);
@@ -127,8 +122,7 @@ describe('certificate issuance', () => {
 		const rows = await a.selectFrom('certificate').select(['number']).execute();
 		expect(rows).toHaveLength(1);
 		for (const o of outcomes) expect(o.certificate?.number).toBe(rows[0].number);
-		await a.destroy();
-		await b.destroy();
+		await destroyAll([a, b]);
 	});
 
 	it('revokes with a reason the public never sees, re-issues after a name correction, audits both', async () => {

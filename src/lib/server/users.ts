@@ -41,7 +41,8 @@ export async function createUser(
 		name: input.name.trim(),
 		passwordHash: input.password ? await hashPassword(input.password) : null,
 		emailVerified: input.emailVerified ? new Date().toISOString() : null,
-		image: null
+		image: null,
+		createdAt: new Date().toISOString()
 	};
 	try {
 		await db.insertInto('User').values(user).execute();
@@ -72,7 +73,7 @@ export async function signUp(input: { email: string; name: string; password?: st
 					return { id: existing.id, email, isNew: false };
 				}
 				const id = crypto.randomUUID();
-				await trx.insertInto('User').values({ id, email, name: input.name.trim(), passwordHash, emailVerified: null, image: null }).execute();
+				await trx.insertInto('User').values({ id, email, name: input.name.trim(), passwordHash, emailVerified: null, image: null, createdAt: new Date().toISOString() }).execute();
 				return { id, email, isNew: true };
 			});
 		} catch (e) {
