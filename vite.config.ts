@@ -12,8 +12,8 @@ export default defineConfig({
 		include: process.env.SCALE_TESTS === '1' ? ['tests/scale/**/*.test.ts'] : ['src/**/*.test.ts', 'tests/unit/**/*.test.ts'],
 		environment: 'node',
 		// PostgreSQL engines (TEST_DB=pglite|postgres) start a server or a WebAssembly instance first
-		testTimeout: process.env.TEST_DB && process.env.TEST_DB !== 'sqlite' ? 120_000 : 20_000,
-		hookTimeout: process.env.TEST_DB && process.env.TEST_DB !== 'sqlite' ? 120_000 : 10_000,
+		testTimeout: process.env.TEST_DB && process.env.TEST_DB !== 'sqlite' ? 300_000 : 20_000,
+		hookTimeout: process.env.TEST_DB && process.env.TEST_DB !== 'sqlite' ? 300_000 : 10_000,
 		fileParallelism: true
 	}
 });

@@ -158,7 +158,7 @@ describe('two app processes on one PostgreSQL database', () => {
 		expect(out.status).toBeLessThan(400);
 		expect((await fetch(`${a.base}/api/v1/me`, { headers: { cookie: other } })).status).toBe(401);
 		expect((await fetch(`${a.base}/api/v1/me`, { headers: { cookie } })).status).toBe(200);
-	});
+	}, 120_000);
 
 	it('the sign-in limit counts attempts made on both processes', async () => {
 		for (let i = 0; i < LIMIT_PER_EMAIL; i++) {
@@ -171,7 +171,7 @@ describe('two app processes on one PostgreSQL database', () => {
 			expect(refused.status).toBe(429);
 			expect(await refused.text()).toContain('Too many sign-in attempts');
 		}
-	});
+	}, 120_000);
 
 	it('50 concurrent submits split across both processes grade the attempt once', async () => {
 		const cookie = cookieOf(await signIn(b, 'crew@scale.test', PASSWORD));
