@@ -9,6 +9,7 @@ import { seedDemo } from '$lib/server/demo-seed';
 import { assessSubmission } from '$lib/server/sign-offs';
 import { listCertificatesForRegistrar } from '$lib/server/certificates';
 import { issuerKeyFile } from '$lib/server/issuer-key';
+import { isDatabaseBusy } from '$lib/server/db/errors';
 import { createSharedTestDbs, createTestDb, destroyAll } from '../helpers/db';
 import { makeTraineeAndTrainer, useTemporaryDataDir } from '../helpers/certificates';
 
@@ -122,6 +123,35 @@ describe('certificate issuance', () => {
 		const rows = await a.selectFrom('certificate').select(['number']).execute();
 		expect(rows).toHaveLength(1);
 		for (const o of outcomes) expect(o.certificate?.number).toBe(rows[0].number);
+		await destroyAll([a, b]);
+	});
+
+	it('two registrars racing to re-issue or revoke one certificate change it once', async () => {
+		const [a, b] = await createSharedTestDbs(2);
+		const { trainee, trainer } = await makeTraineeAndTrainer(a, BASIC);
+		await recordPassedTest(trainee.id, BASIC, day('2026-10-01'), a);
+		await recordSignOffs(trainee.id, BASIC, trainer, day('2026-10-02'), a);
+		const issued = await issueIfEarned(trainee.id, BASIC, { db: a, now: day('2026-10-02') });
+		if (!issued.issued) throw new Error('not issued');
+		const number = issued.certificate.number;
+		// a refusal is a 409, or on SQLite a busy write lock (the request would answer 503)
+		const settle = (p: Promise<{ ok: boolean }>) => p.catch((e) => (isDatabaseBusy(e) ? { ok: false } : Promise.reject(e)));
+		const reissues = await Promise.all([
+			settle(reissueWithName(trainer.id, number, 'Name One', { db: a, now: day('2026-10-03') })),
+			settle(reissueWithName(trainer.id, number, 'Name Two', { db: b, now: day('2026-10-03') })),
+			settle(reissueWithName(trainer.id, number, 'Name Three', { db: a, now: day('2026-10-03') })),
+			settle(reissueWithName(trainer.id, number, 'Name Four', { db: b, now: day('2026-10-03') }))
+		]);
+		expect(reissues.filter((r) => r.ok)).toHaveLength(1);
+		const current = await a.selectFrom('certificate').select(['number', 'holder_name']).where('slot', 'is not', null).execute();
+		expect(current).toHaveLength(1);
+		expect((await a.selectFrom('certificate').select('id').execute()).length).toBe(2);
+		const revokes = await Promise.all(
+			[a, b, a, b].map((h) => settle(revokeCertificate(trainer.id, current[0].number, 'misconduct', 'Raced', { db: h, now: day('2026-10-04') })))
+		);
+		expect(revokes.filter((r) => r.ok)).toHaveLength(1);
+		const actions = (await listAudit({ subjectType: 'certificate' }, a)).map((e) => e.action).sort();
+		expect(actions).toEqual(['certificate.issue', 'certificate.issue', 'certificate.replace', 'certificate.revoke']);
 		await destroyAll([a, b]);
 	});
 
