@@ -8,12 +8,27 @@ const PORT = Number(process.env.E2E_PORT || 4173);
 const MAIL_SMTP_PORT = Number(process.env.E2E_SMTP_PORT || 2626);
 const MAIL_HTTP_PORT = Number(process.env.E2E_MAIL_HTTP_PORT || 8126);
 const PAY_PORT = Number(process.env.E2E_PAY_PORT || 12117);
+const S3_PORT = Number(process.env.E2E_S3_PORT || 12118);
+const S3_BUCKET = 'patchwright-e2e';
 const PAY_SECRET_KEY = 'sk_test_e2e_only';
 const PAY_WEBHOOK_SECRET = 'whsec_e2e_only_not_for_production';
 const artifacts = 'tests/.artifacts';
 export const baseURL = `http://localhost:${PORT}`;
 export const inboxURL = `http://127.0.0.1:${MAIL_HTTP_PORT}/`;
 export const paymentsURL = `http://127.0.0.1:${PAY_PORT}/`;
+/**
+ * The app keeps its files in the S3 fake (s3rver, started with the other fakes) unless
+ * E2E_STORAGE=filesystem: evidence uploads and certificate downloads go through the AWS SDK.
+ */
+export const useS3 = process.env.E2E_STORAGE !== 'filesystem';
+// the AWS SDK's notice that its 2027 releases will need Node 22 (known; see README), in the tests and the app
+process.env.AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED ??= 'true';
+export const s3URL = `http://127.0.0.1:${S3_PORT}`;
+export const s3Bucket = S3_BUCKET;
+export const e2eDataDir = `${artifacts}/e2e-data`;
+const s3Settings: Record<string, string> = useS3
+	? { S3_ENDPOINT: s3URL, S3_BUCKET, S3_REGION: 'us-east-1', S3_ACCESS_KEY_ID: 'S3RVER', S3_SECRET_ACCESS_KEY: 'S3RVER', S3_FORCE_PATH_STYLE: '1' }
+	: {};
 
 export default defineConfig({
 	testDir: 'tests/e2e',
@@ -35,7 +50,8 @@ export default defineConfig({
 	projects: [{ name: 'chromium', use: { ...devices['Desktop Chrome'], channel: undefined } }],
 	webServer: [
 		{
-			url: inboxURL,
+			// the S3 fake starts last, so its answer means every fake is up
+			url: useS3 ? `${s3URL}/` : inboxURL,
 			reuseExistingServer: false,
 			command: `rm -rf ${artifacts}/e2e-fakes && node --import jiti/register scripts/fakes.ts`,
 			env: {
@@ -46,7 +62,9 @@ export default defineConfig({
 				PAY_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/v1/payments/webhook`,
 				PAY_WEBHOOK_SECRET,
 				PAY_SECRET_KEY,
-				PAY_RETRY_BASE_MS: '500'
+				PAY_RETRY_BASE_MS: '500',
+				S3_FAKE_PORT: useS3 ? String(S3_PORT) : 'off',
+				S3_FAKE_BUCKET: S3_BUCKET
 			},
 			stdout: 'ignore'
 		},
@@ -73,7 +91,8 @@ export default defineConfig({
 				SIGN_IN_LIMIT_PER_IP: '100000',
 				// Evidence uploads: 8 files of 12 MB plus the form (the upload route enforces its own caps).
 				BODY_SIZE_LIMIT: '100M',
-				CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: '100000'
+				CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: '100000',
+				...s3Settings
 			},
 			stdout: 'pipe'
 		}

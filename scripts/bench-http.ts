@@ -14,7 +14,7 @@
  * to profile one path at a time.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -49,6 +49,21 @@ export interface LoadResult {
 	/** Answers other than 2xx, 429s included. */
 	non2xx: number;
 	tooMany: number;
+	/** Server CPU time (user + system) per answered request, in µs; null where /proc cannot tell. */
+	cpuMicros: number | null;
+}
+
+const CLOCK_TICKS_PER_SECOND = 100; // Linux USER_HZ, the unit of utime and stime in /proc/<pid>/stat (proc(5))
+
+/** CPU seconds a process has used so far (proc(5): fields 14 and 15 of /proc/<pid>/stat), or null. */
+function cpuSeconds(pid: number | undefined): number | null {
+	if (!pid) return null;
+	try {
+		const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+		return (Number(fields[11]) + Number(fields[12])) / CLOCK_TICKS_PER_SECOND;
+	} catch {
+		return null;
+	}
 }
 
 export function freePort(): Promise<number> {
@@ -142,8 +157,9 @@ export async function signIn(baseUrl: string, email: string, password: string): 
 	return cookies.join('; ');
 }
 
-export function load(url: string, target: Target, cookie: string | null, seconds: number): Promise<LoadResult> {
+export function load(url: string, target: Target, cookie: string | null, seconds: number, serverPid?: number): Promise<LoadResult> {
 	const headers: Record<string, string> = {};
+	const cpuBefore = cpuSeconds(serverPid);
 	if (target.body) headers['content-type'] = 'application/json';
 	if (target.signedIn && cookie) headers.cookie = cookie;
 	return new Promise((resolve, reject) => {
@@ -158,16 +174,21 @@ export function load(url: string, target: Target, cookie: string | null, seconds
 					p99: result.latency.p99,
 					errors: result.errors + result.timeouts,
 					non2xx: result.non2xx,
-					tooMany: result.statusCodeStats?.['429']?.count ?? 0
+					tooMany: result.statusCodeStats?.['429']?.count ?? 0,
+					cpuMicros: cpuPerRequest(cpuBefore, cpuSeconds(serverPid), result.requests.total)
 				});
 			}
 		);
 	});
 }
 
-export async function measure(url: string, target: Target, cookie: string | null): Promise<LoadResult> {
+function cpuPerRequest(before: number | null, after: number | null, requests: number): number | null {
+	return before === null || after === null || requests === 0 ? null : ((after - before) * 1e6) / requests;
+}
+
+export async function measure(url: string, target: Target, cookie: string | null, serverPid?: number): Promise<LoadResult> {
 	await load(url, target, cookie, WARM_UP_SECONDS);
-	return load(url, target, cookie, SECONDS);
+	return load(url, target, cookie, SECONDS, serverPid);
 }
 
 /** Page weight runs in its own plain Node process (see scripts/bench-pages.mjs). */
@@ -199,19 +220,24 @@ interface PairedResult {
 	bare: LoadResult;
 }
 
+const micros = (n: number | null) => (n === null ? '-' : Math.round(n).toLocaleString('en-US'));
+const cpuRatio = (bare: number | null, app: number | null) => (bare === null || !app ? '-' : `${((100 * bare) / app).toFixed(1)} %`);
+
 function printLoad(rows: PairedResult[]) {
 	const width = Math.max(...rows.map((r) => r.app.name.length), 6);
 	const num = (n: number) => Math.round(n).toLocaleString('en-US');
 	console.log(`\nHTTP: ${CONNECTIONS} connections, ${SECONDS} s per target after ${WARM_UP_SECONDS} s warm-up (autocannon)`);
 	console.log('Each target is measured right after the bare node:http + better-sqlite3 point lookup (100,000 rows)');
 	console.log('on the same machine, and "vs bare" is the ratio of the two: other load on the machine weighs on both.');
+	console.log('"CPU µs" is the server\'s CPU time per answer (from /proc); "by CPU" is bare CPU per answer over the app\'s,');
+	console.log('the share of the bare server\'s rate the app would reach on an idle core, which other load disturbs far less.');
 	console.log(
-		`${'target'.padEnd(width)}  ${'req/s'.padStart(8)}  ${'p50 ms'.padStart(7)}  ${'p99 ms'.padStart(7)}  ${'errors'.padStart(6)}  ${'non-2xx'.padStart(7)}  ${'429'.padStart(5)}  ${'bare req/s'.padStart(10)}  ${'bare p99'.padStart(8)}  ${'vs bare'.padStart(7)}`
+		`${'target'.padEnd(width)}  ${'req/s'.padStart(8)}  ${'p50 ms'.padStart(7)}  ${'p99 ms'.padStart(7)}  ${'errors'.padStart(6)}  ${'non-2xx'.padStart(7)}  ${'429'.padStart(5)}  ${'bare req/s'.padStart(10)}  ${'bare p99'.padStart(8)}  ${'vs bare'.padStart(7)}  ${'CPU µs'.padStart(7)}  ${'bare CPU'.padStart(8)}  ${'by CPU'.padStart(7)}`
 	);
 	for (const { app: r, bare } of rows) {
 		const ratio = `${((100 * r.requestsPerSecond) / bare.requestsPerSecond).toFixed(1)} %`;
 		console.log(
-			`${r.name.padEnd(width)}  ${num(r.requestsPerSecond).padStart(8)}  ${r.p50.toFixed(1).padStart(7)}  ${r.p99.toFixed(1).padStart(7)}  ${String(r.errors).padStart(6)}  ${String(r.non2xx).padStart(7)}  ${String(r.tooMany).padStart(5)}  ${num(bare.requestsPerSecond).padStart(10)}  ${bare.p99.toFixed(1).padStart(8)}  ${ratio.padStart(7)}`
+			`${r.name.padEnd(width)}  ${num(r.requestsPerSecond).padStart(8)}  ${r.p50.toFixed(1).padStart(7)}  ${r.p99.toFixed(1).padStart(7)}  ${String(r.errors).padStart(6)}  ${String(r.non2xx).padStart(7)}  ${String(r.tooMany).padStart(5)}  ${num(bare.requestsPerSecond).padStart(10)}  ${bare.p99.toFixed(1).padStart(8)}  ${ratio.padStart(7)}  ${micros(r.cpuMicros).padStart(7)}  ${micros(bare.cpuMicros).padStart(8)}  ${cpuRatio(bare.cpuMicros, r.cpuMicros).padStart(7)}`
 		);
 	}
 }
@@ -234,8 +260,8 @@ export async function runHttpBench(): Promise<void> {
 		const rows: PairedResult[] = [];
 		for (const target of appTargets()) {
 			if (only && !target.name.includes(only)) continue;
-			const bareResult = await load(bare.url, bareTarget, null, BARE_SECONDS);
-			rows.push({ bare: bareResult, app: await measure(app.url, target, cookie) });
+			const bareResult = await load(bare.url, bareTarget, null, BARE_SECONDS, bare.child.pid);
+			rows.push({ bare: bareResult, app: await measure(app.url, target, cookie, app.child.pid) });
 		}
 		printLoad(rows);
 		if (!only) await weighPages(app.url);

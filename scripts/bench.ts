@@ -3,7 +3,8 @@
  * HTTP beside a bare node:http + SQLite server, and page weight in Chromium
  * (scripts/bench-http.ts; needs `npm run build` first). `npm run bench -- calc` runs only the
  * in-process part, `npm run bench -- http` only the HTTP part, `npm run bench -- certificates`
- * only the certificate PDF and look-up figures (scripts/bench-certificates.ts).
+ * only the certificate PDF and look-up figures (scripts/bench-certificates.ts), `npm run bench -- board`
+ * only the compliance board of a 1,000-person company (scripts/bench-board.ts).
  * In-process sections are independent functions; add one (for example problems generated and graded
  * per second) by writing another function that returns BenchResult rows and listing it in
  * `sections` below.
@@ -14,6 +15,7 @@ import { checkAnswer, expectedAmount, generateProblem, listGenerators, type Prob
 import { bench, printSection, type BenchResult } from './bench-lib.ts';
 import { runHttpBench } from './bench-http.ts';
 import { lookupBench, pdfBench } from './bench-certificates.ts';
+import { boardBench } from './bench-board.ts';
 
 const PER_CALCULATOR = 20_000;
 
@@ -85,9 +87,12 @@ const only = process.argv[2];
 if (only === 'certificates') {
 	await pdfBench();
 	await lookupBench();
+} else if (only === 'board') {
+	await boardBench();
 } else {
 	if (only !== 'http') for (const [title, run] of sections) printSection(title, run());
 	if (only !== 'http') await pdfBench();
+	if (only !== 'http') await boardBench();
 	if (only !== 'calc') await runHttpBench();
 	if (only !== 'calc') await lookupBench();
 }

@@ -2,7 +2,8 @@
  * `npm run demo`: builds the app when the build is missing or older than the sources,
  * starts the local fakes on free ports, then the built app with the demo scenario seeded
  * into DATA_DIR (default ./data/demo), and prints every address and login.
- * PORT (default 3000) and DATA_DIR let two copies run side by side.
+ * PORT (default 3000) and DATA_DIR let two copies run side by side. DEMO_STORAGE=s3 keeps the
+ * files in a local S3 fake (under DATA_DIR/s3) instead of DATA_DIR/uploads.
  */
 import { spawn, spawnSync } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
@@ -10,6 +11,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { startMailFake } from '../fakes/mail';
 import { startPaymentsFake } from '../fakes/payments';
+import { startS3Fake } from '../fakes/s3';
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../src/lib/server/demo-people';
 
 const root = path.resolve(import.meta.dirname, '..');
@@ -59,6 +61,8 @@ const payments = await startPaymentsFake({
 	secretKey: paymentsKey
 });
 
+const s3 = process.env.DEMO_STORAGE === 's3' ? await startS3Fake({ port: 0, dir: path.join(dataDir, 's3'), bucket: 'patchwright-demo' }) : null;
+
 const app = spawn(process.execPath, [buildDir], {
 	cwd: root,
 	stdio: ['ignore', 'pipe', 'inherit'],
@@ -80,7 +84,8 @@ const app = spawn(process.execPath, [buildDir], {
 		FAKE_PAYMENTS_URL: payments.url,
 		SEED_DEMO: '1',
 		// Evidence uploads: 8 files of 12 MB plus the form (the upload route enforces its own caps).
-		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '100M'
+		BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT || '100M',
+		...(s3 ? { ...s3.env, AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' } : {})
 	}
 });
 
@@ -98,9 +103,11 @@ Patchwright demo is running.
   Payments:     ${payments.url}   (local test payment service; card 4242 4242 4242 4242 pays, 4000 0000 0000 0002 is declined)
   Calculators:  ${url}/tools
   Data folder:  ${dataDir}
+  Files:        ${s3 ? `S3 fake ${s3.url}, bucket ${s3.bucket}` : `${path.join(dataDir, 'uploads')}`}
 
 Demo logins (password for all: ${DEMO_PASSWORD}):
 ${DEMO_PEOPLE.map((p) => `  ${p.email.padEnd(width)}  ${p.part}`).join('\n')}
+  (Brindlewick's compliance board, at ${url}/company/board as admin@brindlewick.test, shows every state.)
 
 Press Ctrl+C to stop.`);
 	}
@@ -110,6 +117,7 @@ const stop = async () => {
 	app.kill('SIGTERM');
 	await mail.close();
 	await payments.close();
+	await s3?.close();
 	process.exit(0);
 };
 process.on('SIGINT', stop);
@@ -117,5 +125,6 @@ process.on('SIGTERM', stop);
 app.on('exit', async (code) => {
 	await mail.close();
 	await payments.close();
+	await s3?.close();
 	process.exit(code ?? 0);
 });

@@ -13,6 +13,7 @@ import { fillLessonBodySlot } from '$lib/server/lesson-html';
 import { seedDemoPracticals } from '$lib/server/demo-practicals';
 import { issuerKey } from '$lib/server/issuer-key';
 import { startSchedules } from '$lib/server/schedules';
+import { checkFileStore, StorageUnavailableError } from '$lib/server/storage';
 import { withRequestContext } from '$lib/server/request-context';
 import { sessionIdFromCookie } from '$lib/server/session-cookie';
 import { identityForSession } from '$lib/server/sessions';
@@ -24,16 +25,22 @@ export const init: ServerInit = async () => {
 		const config = loadConfig();
 		authSecret();
 		await migrateToLatest(getDb());
+		await checkFileStore();
 		// the certificate signing key exists from the first start, before anything is issued
 		await issuerKey();
 		if (config.seedDemo && (await seedDemo())) {
 			await seedDemoPracticals();
 			console.log('Seeded the demo scenario.');
 		}
-		startSchedules();
+		const jobs = startSchedules();
+		// adapter-node emits this once the HTTP server has closed (SIGTERM, SIGINT): the jobs'
+		// timers would otherwise keep the process alive until it is killed.
+		process.once('sveltekit:shutdown', () => {
+			for (const job of jobs) job.stop();
+		});
 	} catch (e) {
-		// A setting or the data folder is wrong: one line that says which, not a stack trace.
-		if (e instanceof ConfigError || e instanceof DataDirError || (e instanceof Error && e.message.startsWith('AUTH_SECRET'))) {
+		// A setting, the data folder or the file store is wrong: one line that says which, not a stack trace.
+		if (e instanceof ConfigError || e instanceof DataDirError || e instanceof StorageUnavailableError || (e instanceof Error && e.message.startsWith('AUTH_SECRET'))) {
 			console.error(`Patchwright cannot start. ${e.message}`);
 			process.exit(1);
 		}

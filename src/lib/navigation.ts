@@ -11,7 +11,7 @@ export function navigationFor(user: Identity | null): NavLink[] {
 	if (user) links.push({ href: '/dashboard', label: 'Dashboard' });
 	links.push({ href: '/courses', label: 'Courses' }, { href: '/tools', label: 'Calculators' }, { href: '/verify', label: 'Verify a certificate' });
 	if (hasRole(user, 'trainer')) links.push({ href: '/trainer', label: 'Trainer desk' });
-	if (isCompanyAdmin(user)) links.push({ href: '/company', label: 'Company' });
+	if (isCompanyAdmin(user)) links.push({ href: '/company', label: 'Company' }, { href: '/company/board', label: 'Compliance board' });
 	if (hasRole(user, 'inspector')) links.push({ href: '/inspector', label: 'Inspector' });
 	if (hasRole(user, 'registrar')) links.push({ href: '/registrar', label: 'Registrar' });
 	return links;

@@ -22,6 +22,17 @@ const table: [string, Expect | Partial<Record<Identity, Expect>> & { other: Expe
 	['/inspector', { anonymous: 'in', inspector: 'ok', other: 403 }],
 	['/company', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
 	['/registrar/people', { anonymous: 'in', registrar: 'ok', other: 403 }],
+	// the compliance board and its exports: company admins only (a company's own trainer here is also Tarnside's admin)
+	['/company/board', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
+	['/company/board?course=__proto__&state=constructor&expiring=45&q=%00%1F&sort=toString&dir=sideways', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
+	[`/company/board?c=${NO_ID}`, { anonymous: 'in', companyAdmin: 404, companyTrainer: 404, other: 403 }],
+	['/company/board/board.csv', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
+	[`/company/board/board.csv?c=${NO_ID}`, { anonymous: 'in', companyAdmin: 404, companyTrainer: 404, other: 403 }],
+	['/company/board/crew-list.pdf', { anonymous: 'in', companyAdmin: 'ok', companyTrainer: 'ok', other: 403 }],
+	[`/company/board/crew-list.pdf?c=${NO_ID}`, { anonymous: 'in', companyAdmin: 404, companyTrainer: 404, other: 403 }],
+	// a crew member's record: company admins and trainers (in scope); nobody else
+	[`/company/people/${NO_ID}`, { anonymous: 'in', trainee: 403, inspector: 403, other: 404 }],
+	['/company/people/__proto__', { anonymous: 'in', trainee: 403, inspector: 403, other: 404 }],
 	['/registrar/audit', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/registrar/audit?person=%25&action=__proto__&from=2026-99-99&before=-1', { anonymous: 'in', registrar: 'ok', other: 403 }],
 	['/registrar/audit/audit.csv', { anonymous: 'in', registrar: 'ok', other: 403 }],
@@ -359,4 +370,41 @@ test('the registrar limits a trainer to one company and back', async ({ page }) 
 	await expect(person.getByTestId('trainer-scope')).toContainText('everyone');
 	await page.goto('/registrar/audit');
 	await expect(page.locator('[data-action="role.trainer-scope"]').first()).toContainText('train everyone');
+});
+
+test("a company admin sees their own crew's records and exports, and another company's as not found", async () => {
+	const me = async (email: string) => {
+		const person = await newRequest.newContext({ baseURL });
+		await signInRequest(person, email);
+		const identity = await (await person.get('/api/v1/me')).json();
+		return { person, identity: identity as { id: string; companies: { id: string; name: string; role: string }[] } };
+	};
+	const brindlewick = await me(who.companyAdmin);
+	const tarnside = await me(who.companyTrainer);
+	const provider = await me(who.trainer);
+	const sam = await me(who.trainee);
+	const inspector = await me(who.inspector);
+	const samId = sam.identity.id;
+	const brindlewickId = brindlewick.identity.companies.find((c) => c.role === 'admin')!.id;
+
+	// Brindlewick's admin opens Sam's record; it shows scores, never answers
+	const record = await brindlewick.person.get(`/company/people/${samId}?c=${brindlewickId}`);
+	expect(record.status()).toBe(200);
+	const html = await record.text();
+	expect(html).toContain('Sam Okafor');
+	expect(html).toContain('Practical sign-offs');
+	// Tarnside's admin (also Tarnside's own trainer): Sam and Brindlewick's board are "not found"
+	for (const path of [`/company/people/${samId}`, `/company/board?c=${brindlewickId}`, `/company/board/board.csv?c=${brindlewickId}`, `/company/board/crew-list.pdf?c=${brindlewickId}`]) {
+		const refused = await tarnside.person.get(path, { maxRedirects: 0 });
+		expect(refused.status(), path).toBe(404);
+		expect(await refused.text(), path).not.toContain('Sam Okafor');
+	}
+	// the provider's trainer works with everyone: the record opens; the board does not (not a company admin)
+	expect((await provider.person.get(`/company/people/${samId}`)).status()).toBe(200);
+	expect((await provider.person.get(`/company/board?c=${brindlewickId}`, { maxRedirects: 0 })).status()).toBe(403);
+	// trainees (even about themselves) and inspectors get no access
+	expect((await sam.person.get(`/company/people/${samId}`, { maxRedirects: 0 })).status()).toBe(403);
+	expect((await inspector.person.get(`/company/people/${samId}`, { maxRedirects: 0 })).status()).toBe(403);
+	expect((await sam.person.get(`/company/board/board.csv?c=${brindlewickId}`, { maxRedirects: 0 })).status()).toBe(403);
+	for (const p of [brindlewick, tarnside, provider, sam, inspector]) await p.person.dispose();
 });

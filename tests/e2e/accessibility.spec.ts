@@ -24,11 +24,14 @@ test('public pages pass the automated accessibility checks', async ({ page }) =>
 });
 
 test('signed-in pages pass the automated accessibility checks', async ({ page }) => {
+	test.slow(); // seven pages through axe
 	await signInWithPassword(page, who.registrar);
 	for (const path of ['/dashboard', '/registrar/people', '/registrar/audit']) await expectAccessible(page, path);
 	await page.context().clearCookies();
 	await signInWithPassword(page, who.companyAdmin);
 	await expectAccessible(page, '/company');
+	await expectAccessible(page, '/company/board');
+	await expectAccessible(page, '/company/board?expiring=60&state=bogus');
 });
 
 test('a refused form announces its errors and ties each to its field', async ({ page }) => {

@@ -34,7 +34,7 @@ const pagesByRole: Record<'visitor' | keyof typeof who, string[]> = {
 	],
 	trainer: ['/dashboard', '/trainer', '/trainer/attempts', '/trainer/practicals', '/trainer/practicals/in-person', ...courseSlugs.map((c) => `/trainer/attempts/items?course=${c}`)],
 	companyTrainer: ['/dashboard', '/trainer', '/trainer/attempts', '/trainer/practicals'],
-	companyAdmin: ['/dashboard', '/company'],
+	companyAdmin: ['/dashboard', '/company', '/company/board', '/company/board?expiring=90&sort=point-repair-installer'],
 	inspector: ['/dashboard', '/inspector', '/verify'],
 	registrar: ['/dashboard', '/registrar/people', '/registrar/audit', '/registrar/sign-offs', '/registrar/certificates', '/trainer/attempts']
 };

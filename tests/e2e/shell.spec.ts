@@ -31,6 +31,7 @@ test('the About page speaks to crews: what works today, no code', async ({ page 
 });
 
 test('at phone width every dashboard is usable and the menu opens', async ({ page }) => {
+	test.slow(); // six sign-ins with password hashing: about 30 s on a loaded machine
 	await page.setViewportSize({ width: 360, height: 780 });
 	for (const [role, email] of Object.entries(who)) {
 		await signInWithPassword(page, email);

@@ -5,12 +5,14 @@ import { createLocalJWKSet, decodeJwt, exportJWK, generateKeyPair, jwtVerify, Si
 import jsQR from 'jsqr';
 import sharp from 'sharp';
 import { extractText, getDocumentProxy } from 'unpdf';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { issueIfEarned, type CertificateRow } from '$lib/server/certificates';
-import { checkUploadedPdf, issuedDocument } from '$lib/server/certificate-documents';
+import { checkUploadedPdf, IssuedFileMissingError, issuedDocument, openIssuedDocument } from '$lib/server/certificate-documents';
+import { FilesystemStore, readObject, S3Store, type FileStore } from '$lib/server/storage';
+import { parseConfig, reloadConfig } from '$lib/server/config';
+import { startS3Fake } from '../../fakes/s3';
 import { issuerId, publishedJwks, verifyCredentialJwt } from '$lib/server/credential';
 import { recordPassedTest, recordSignOffs } from '$lib/server/demo-certificates';
-import { reloadConfig } from '$lib/server/config';
 import { createTestDb } from '../helpers/db';
 import { makeTraineeAndTrainer, useTemporaryDataDir } from '../helpers/certificates';
 
@@ -118,6 +120,73 @@ describe('certificate documents and the credential', () => {
 		expect(c.credentialSubject.identifier[0]).toMatchObject({ type: 'IdentityObject', identityType: 'name', hashed: false, identityHash: 'Zoë Łukasiewicz' });
 		expect(c.credentialSubject.achievement).toMatchObject({ type: ['Achievement'], name: cert.course_title });
 		for (const field of ['id', 'description', 'criteria']) expect(c.credentialSubject.achievement).toHaveProperty(field);
+	});
+
+	describe.each(['filesystem', 's3'] as const)('the stored PDF streams and is checked on the way out (%s store)', (kind) => {
+		let store: FileStore;
+		let stop = async () => {};
+		beforeAll(async () => {
+			if (kind === 'filesystem') {
+				store = new FilesystemStore(path.join(dataDir, 'stream-check'));
+			} else {
+				const fake = await startS3Fake({ port: 0, dir: path.join(dataDir, 's3-fake'), bucket: 'certificate-files' });
+				store = new S3Store(parseConfig(fake.env).s3!);
+				stop = () => fake.close();
+			}
+		});
+		afterAll(() => stop());
+		beforeEach(async () => {
+			await db.deleteFrom('certificate_file').where('certificate_id', '=', cert.id).where('format', '=', 'card').execute();
+		});
+
+		const storedKey = async () =>
+			(await db.selectFrom('certificate_file').select('storage_key').where('certificate_id', '=', cert.id).where('format', '=', 'card').executeTakeFirstOrThrow()).storage_key;
+		/** Reads a stream to its end or its error, keeping what arrived. */
+		const drain = async (body: NodeJS.ReadableStream) => {
+			const chunks: Buffer[] = [];
+			try {
+				for await (const chunk of body) chunks.push(chunk as Buffer);
+				return { bytes: Buffer.concat(chunks), error: null };
+			} catch (err) {
+				return { bytes: Buffer.concat(chunks), error: err as Error };
+			}
+		};
+
+		it('renders and stores once, then streams the same bytes with the recorded size', async () => {
+			const first = await openIssuedDocument(cert, 'card', { db, store });
+			const firstBytes = (await drain(first.body)).bytes;
+			expect(first.sizeBytes).toBe(firstBytes.length);
+			const again = await openIssuedDocument(cert, 'card', { db, store });
+			const read = await drain(again.body);
+			expect(read.error).toBeNull();
+			expect(Buffer.compare(read.bytes, firstBytes)).toBe(0);
+			expect(again.sha256).toBe(first.sha256);
+			expect(Buffer.compare((await readObject(store, await storedKey()))!, firstBytes)).toBe(0);
+		});
+
+		it('a stored file changed in place (same size) fails at the end and never arrives whole', async () => {
+			const { bytes } = await issuedDocument(cert, 'card', { db, store });
+			const changed = Buffer.from(bytes);
+			changed[changed.length - 10] ^= 0x01;
+			await store.put(await storedKey(), changed);
+			const opened = await openIssuedDocument(cert, 'card', { db, store });
+			expect(opened.sizeBytes).toBe(bytes.length);
+			const read = await drain(opened.body);
+			expect(read.error?.message).toMatch(/does not match its recorded SHA-256/);
+			expect(read.bytes.length).toBeLessThan(bytes.length);
+		});
+
+		it('a stored file of another size is refused before any byte is sent', async () => {
+			await issuedDocument(cert, 'card', { db, store });
+			await store.put(await storedKey(), Buffer.from('%PDF-1.7 truncated'));
+			await expect(openIssuedDocument(cert, 'card', { db, store })).rejects.toThrow(/bytes, \d+ were recorded/);
+		});
+
+		it('a recorded file missing from the store is IssuedFileMissingError (the route answers 404)', async () => {
+			await issuedDocument(cert, 'card', { db, store });
+			await store.delete(await storedKey());
+			await expect(openIssuedDocument(cert, 'card', { db, store })).rejects.toThrow(IssuedFileMissingError);
+		});
 	});
 
 	describe('tampering is detected', () => {

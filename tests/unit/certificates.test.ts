@@ -202,7 +202,7 @@ describe('certificate issuance', () => {
 		expect(fs.statSync(issuerKeyFile(dataDir)).mode & 0o777).toBe(0o600);
 	});
 
-	it('seeds the demo with valid, expiring-soon, expired and revoked certificates and two people one requirement short', async () => {
+	it('seeds the demo with valid, expiring-soon, expired and revoked certificates and three people one requirement short', async () => {
 		await seedDemo(db);
 		const all = await listCertificatesForRegistrar('', { db });
 		const byHolder = new Map(all.map((c) => [`${c.holder}|${c.course.code}`, c]));
@@ -215,7 +215,7 @@ describe('certificate issuance', () => {
 		expect(byHolder.get('Ivo Brack|PR-100')?.status).toBe('expired');
 		expect(byHolder.get('Rhea Solley|PR-100')).toMatchObject({ status: 'revoked', revocationReason: expect.stringContaining('Issued in error') });
 		const waiting = (await listWaitingForOne({ db })).map((w) => `${w.name}|${w.courseSlug}|${w.missing.key}`).sort();
-		expect(waiting).toEqual(['Kit Mendel|transition-patches|test', 'Nell Garrow|packer-pressure-safety|skills']);
+		expect(waiting).toEqual(['Cole Farrant|point-repair-installer|skills', 'Kit Mendel|transition-patches|test', 'Nell Garrow|packer-pressure-safety|skills']);
 	});
 
 	it("issues in the trainer's sign-off transaction when that sign-off is the last requirement", async () => {

@@ -7,7 +7,8 @@ import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from
 import { reloadConfig } from '$lib/server/config';
 import { seedDemo } from '$lib/server/demo-seed';
 import { receiveEvidence } from '$lib/server/evidence-upload';
-import { FilesystemStore, readObject } from '$lib/server/storage';
+import { FilesystemStore, readObject, StorageUnavailableError, type FileStore } from '$lib/server/storage';
+import { apiFailure, failFrom } from '$lib/server/sign-off-forms';
 import { UploadError } from '$lib/server/uploads';
 import { findUserByEmail } from '$lib/server/users';
 import { createTestDb } from '../helpers/db';
@@ -157,5 +158,26 @@ describe('evidence uploads', () => {
 
 	it('refuses a body that is not multipart', async () => {
 		await refused(new Request('http://localhost/upload', { method: 'POST', headers: { 'content-type': 'application/json' }, body: '{}' }), 415, /multipart/);
+	});
+
+	it('a file store out of reach half-way is a 503 with nothing recorded and nothing left stored', async () => {
+		const photo = await phoneJpegWithGps(40, 30);
+		// the second object (the thumbnail) cannot be stored: the photo stored before it is removed again
+		let puts = 0;
+		const flaky: FileStore = {
+			kind: 'filesystem',
+			put: (key, body, info) => (++puts === 2 ? Promise.reject(new StorageUnavailableError(`Could not store stored file ${key} (ECONNRESET).`)) : store.put(key, body, info)),
+			get: (key) => store.get(key),
+			exists: (key) => store.exists(key),
+			delete: (key) => store.delete(key)
+		};
+		const err = await receiveEvidence(upload([{ name: 'rig.jpg', bytes: photo }]), { traineeId, courseSlug: 'point-repair-installer', skillId: 'wet-out' }, flaky, db).then(() => null, (e) => e);
+		expect(err).toBeInstanceOf(StorageUnavailableError);
+		expect(await leftovers()).toEqual({ stored: [], temporary: [], rows: 0, submissions: 0 });
+		const answer = apiFailure(err);
+		expect(answer.status).toBe(503);
+		expect(await answer.json()).toEqual({ error: { code: 'unavailable', message: StorageUnavailableError.readerMessage } });
+		const form = failFrom(err, { note: 'Wet-out on the rig.' });
+		expect(form).toMatchObject({ status: 503, data: { message: StorageUnavailableError.readerMessage, values: { note: 'Wet-out on the rig.' } } });
 	});
 });

@@ -1,4 +1,6 @@
 import { createHash } from 'node:crypto';
+import { Readable, Transform } from 'node:stream';
+import { buffer } from 'node:stream/consumers';
 import { PDFDocument } from 'pdf-lib';
 import { parseNumber } from '$lib/certificates/number';
 import { config } from './config';
@@ -6,7 +8,7 @@ import { verifyUrl } from './credential';
 import { db as defaultDb, type DB } from './db';
 import type { CertificateTable } from './db/schema';
 import { renderCertificatePdf, type DocumentFormat } from './pdf/certificate';
-import { fileStore, readObject, type FileStore } from './storage';
+import { fileStore, type FileStore } from './storage';
 
 /**
  * The issued PDFs. Each format is rendered once, stored, and its SHA-256 recorded; later
@@ -39,22 +41,40 @@ export function documentOf(row: CertificateTable, origin = config.origin) {
 	};
 }
 
-/** The issued file for one format, rendered and recorded on first request. */
-export async function issuedDocument(
+/** The issued PDF of a certificate is recorded but its stored object is gone (a 404 for the reader, an alarm for the operator). */
+export class IssuedFileMissingError extends Error {}
+
+export interface IssuedDocumentStream {
+	/** The stored bytes; the stream fails at its end if they do not hash to the recorded SHA-256. */
+	body: Readable;
+	sizeBytes: number;
+	sha256: string;
+}
+
+/**
+ * The issued file for one format, rendered and recorded on first request, as a stream. A stored
+ * file whose size differs from the record is refused before any byte is sent; one whose bytes
+ * hash differently fails at the end of the stream, so a download is never silently wrong.
+ */
+export async function openIssuedDocument(
 	row: CertificateTable,
 	format: DocumentFormat,
 	{ db = defaultDb, store = fileStore() }: { db?: DB; store?: FileStore } = {}
-): Promise<{ bytes: Uint8Array; sha256: string }> {
+): Promise<IssuedDocumentStream> {
 	const recorded = await db
 		.selectFrom('certificate_file')
-		.select(['sha256', 'storage_key'])
+		.select(['sha256', 'size_bytes', 'storage_key'])
 		.where('certificate_id', '=', row.id)
 		.where('format', '=', format)
 		.executeTakeFirst();
 	if (recorded) {
-		const bytes = await readObject(store, recorded.storage_key);
-		if (bytes && sha256Hex(bytes) === recorded.sha256) return { bytes, sha256: recorded.sha256 };
-		throw new Error(`Stored certificate file ${recorded.storage_key} is missing or does not match its hash`);
+		const object = await store.get(recorded.storage_key);
+		if (!object) throw new IssuedFileMissingError(`Stored certificate file ${recorded.storage_key} is missing`);
+		if (object.sizeBytes !== recorded.size_bytes) {
+			object.body.destroy();
+			throw new Error(`Stored certificate file ${recorded.storage_key} has ${object.sizeBytes} bytes, ${recorded.size_bytes} were recorded`);
+		}
+		return { body: verifiedStream(object.body, recorded.sha256, recorded.storage_key), sizeBytes: recorded.size_bytes, sha256: recorded.sha256 };
 	}
 	const bytes = await renderCertificatePdf(documentOf(row), format);
 	const sha256 = sha256Hex(bytes);
@@ -68,9 +88,42 @@ export async function issuedDocument(
 	if (Number(inserted.numInsertedOrUpdatedRows ?? 0) === 0) {
 		// two first downloads at once: the other one's file is the issued one
 		await store.delete(key);
-		return issuedDocument(row, format, { db, store });
+		return openIssuedDocument(row, format, { db, store });
 	}
-	return { bytes, sha256 };
+	return { body: Readable.from([Buffer.from(bytes)]), sizeBytes: bytes.length, sha256 };
+}
+
+/** The issued file for one format as bytes (small files; downloads use openIssuedDocument). */
+export async function issuedDocument(
+	row: CertificateTable,
+	format: DocumentFormat,
+	options: { db?: DB; store?: FileStore } = {}
+): Promise<{ bytes: Uint8Array; sha256: string }> {
+	const { body, sha256 } = await openIssuedDocument(row, format, options);
+	return { bytes: new Uint8Array(await buffer(body)), sha256 };
+}
+
+/**
+ * Passes the stored bytes on, holding back the last chunk until the whole file hashed to the
+ * recorded value: a file that does not match never reaches its full length at the reader.
+ */
+function verifiedStream(source: Readable, sha256: string, key: string): Readable {
+	const hash = createHash('sha256');
+	let held: Buffer | null = null;
+	const check = new Transform({
+		transform(chunk: Buffer, _encoding, done) {
+			hash.update(chunk);
+			const previous = held;
+			held = chunk;
+			done(null, previous ?? undefined);
+		},
+		flush(done) {
+			if (hash.digest('hex') !== sha256) return done(new Error(`Stored certificate file ${key} does not match its recorded SHA-256`));
+			done(null, held ?? undefined);
+		}
+	});
+	source.on('error', (err) => check.destroy(err));
+	return source.pipe(check);
 }
 
 export type UploadCheck =

@@ -57,8 +57,59 @@ const settings = z.object({
 	/** The training provider named on certificates. */
 	ISSUER_NAME: z.string().optional().transform((s) => s?.trim() || 'Fenmoor Training Yard'),
 	/** Certificate look-ups per client address per minute (verify pages and API), before RATE_LIMIT_FACTOR. */
-	CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: wholeNumber(120)
+	CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE: wholeNumber(120),
+	/**
+	 * S3-compatible object storage for uploaded and issued files; unset keeps them under
+	 * DATA_DIR/uploads/. S3_BUCKET switches it on; S3_ENDPOINT is for services other than AWS
+	 * (and local fakes); without the two keys the SDK's own credential chain is used.
+	 */
+	S3_BUCKET: z
+		.string()
+		.optional()
+		.transform((s) => s?.trim() || '')
+		.pipe(z.string().regex(/^$|^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'must be a bucket name: 3-63 lowercase letters, digits, dots and hyphens')),
+	S3_ENDPOINT: z
+		.string()
+		.optional()
+		.transform((s) => s?.trim().replace(/\/+$/, '') || '')
+		.pipe(z.string().regex(/^$|^https?:\/\/[^\s/?#]+(\/[^\s?#]*)?$/, 'must be an http:// or https:// address')),
+	S3_REGION: z
+		.string()
+		.optional()
+		.transform((s) => s?.trim() || 'us-east-1')
+		.pipe(z.string().regex(/^[a-z0-9-]{2,40}$/, 'must be a region name such as us-east-1')),
+	S3_ACCESS_KEY_ID: z.string().optional().transform((s) => s?.trim() || ''),
+	S3_SECRET_ACCESS_KEY: z.string().optional().transform((s) => s?.trim() || ''),
+	/** Bucket in the path (http://host/bucket/key) instead of the host name; the default when S3_ENDPOINT is set. */
+	S3_FORCE_PATH_STYLE: z.enum(['', '0', '1'], { error: 'must be 0 or 1' }).optional()
+}).superRefine((env, ctx) => {
+	const needsBucket = env.S3_ENDPOINT || env.S3_ACCESS_KEY_ID || env.S3_SECRET_ACCESS_KEY;
+	if (needsBucket && !env.S3_BUCKET) ctx.addIssue({ code: 'custom', path: ['S3_BUCKET'], message: 'must be set when other S3_ settings are' });
+	if (Boolean(env.S3_ACCESS_KEY_ID) !== Boolean(env.S3_SECRET_ACCESS_KEY)) {
+		const missing = env.S3_ACCESS_KEY_ID ? 'S3_SECRET_ACCESS_KEY' : 'S3_ACCESS_KEY_ID';
+		ctx.addIssue({ code: 'custom', path: [missing], message: 'must be set together with the other S3 key' });
+	}
 });
+
+/** Where the S3 store sends its requests; null credentials use the SDK's default chain (environment, instance role). */
+export interface S3Settings {
+	bucket: string;
+	endpoint: string | null;
+	region: string;
+	forcePathStyle: boolean;
+	credentials: { accessKeyId: string; secretAccessKey: string } | null;
+}
+
+function s3Settings(env: z.output<typeof settings>): S3Settings | null {
+	if (!env.S3_BUCKET) return null;
+	return {
+		bucket: env.S3_BUCKET,
+		endpoint: env.S3_ENDPOINT || null,
+		region: env.S3_REGION,
+		forcePathStyle: env.S3_FORCE_PATH_STYLE ? env.S3_FORCE_PATH_STYLE === '1' : Boolean(env.S3_ENDPOINT),
+		credentials: env.S3_ACCESS_KEY_ID ? { accessKeyId: env.S3_ACCESS_KEY_ID, secretAccessKey: env.S3_SECRET_ACCESS_KEY } : null
+	};
+}
 
 export type Config = ReturnType<typeof shape>;
 
@@ -83,7 +134,9 @@ function shape(env: z.output<typeof settings>) {
 		sessionMaxAgeSeconds: env.SESSION_MAX_DAYS * 24 * 60 * 60,
 		origin: (env.ORIGIN || `http://localhost:${env.PORT || 3000}`).replace(/\/+$/, ''),
 		issuerName: env.ISSUER_NAME,
-		certificateLookupsPerMinute: env.CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE
+		certificateLookupsPerMinute: env.CERTIFICATE_LOOKUP_LIMIT_PER_MINUTE,
+		/** Object storage for files; null keeps them under DATA_DIR/uploads/. */
+		s3: s3Settings(env)
 	};
 }
 

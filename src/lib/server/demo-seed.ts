@@ -6,6 +6,7 @@ import { createUser } from './users';
 import { hashPassword } from './passwords';
 import { enrol } from './enrolments';
 import { seedDemoCertificates } from './demo-certificates';
+import { BOARD_DEMO_PEOPLE, seedBoardDemo } from './demo-board';
 
 /** Seeds the invented demo scenario into an empty database; does nothing otherwise. */
 export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
@@ -16,7 +17,7 @@ export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
 		const companyIds = new Map<string, string>();
 		const byEmail = new Map<string, string>();
 		for (const name of DEMO_COMPANIES) companyIds.set(name, (await createCompany(null, name, trx)).id);
-		for (const person of DEMO_PEOPLE) {
+		for (const person of [...DEMO_PEOPLE, ...BOARD_DEMO_PEOPLE]) {
 			const user = await createUser({ email: person.email, name: person.name, emailVerified: true }, trx);
 			byEmail.set(person.email, user.id);
 			await trx.updateTable('User').set({ passwordHash }).where('id', '=', user.id).execute();
@@ -26,6 +27,7 @@ export async function seedDemo(db: DB = defaultDb): Promise<boolean> {
 			for (const course of person.enrolments ?? []) await enrol(null, user.id, course, 'demo', trx);
 		}
 		await seedDemoCertificates(byEmail, trx);
+		await seedBoardDemo(byEmail, trx);
 	});
 	return true;
 }

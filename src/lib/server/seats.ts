@@ -143,21 +143,29 @@ export async function claimSeat(companyId: string, courseSlug: string, userId: s
  * that is not a free preview. Returns true when this call started the seat's use.
  */
 export async function markSeatInUse(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
+	// Every lesson view asks; almost always the seat is marked already. A plain read answers that
+	// without the write lock, so readers do not queue behind one another's transactions.
+	if (!db.isTransaction && !(await unusedSeatId(userId, courseSlug, db))) return false;
 	return inTransaction(db, async (trx) => {
-		const seat = await trx
-			.selectFrom('seat')
-			.select('id')
-			.where('holder_id', '=', userId)
-			.where('course_slug', '=', courseSlug)
-			.where('refunded_at', 'is', null)
-			.where('used_at', 'is', null)
-			.executeTakeFirst();
-		if (!seat) return false;
-		const result = await trx.updateTable('seat').set({ used_at: nowIso() }).where('id', '=', seat.id).where('used_at', 'is', null).executeTakeFirst();
+		const seatId = await unusedSeatId(userId, courseSlug, trx);
+		if (!seatId) return false;
+		const result = await trx.updateTable('seat').set({ used_at: nowIso() }).where('id', '=', seatId).where('used_at', 'is', null).executeTakeFirst();
 		if (Number(result.numUpdatedRows) !== 1) return false;
-		await recordAudit({ actorId: userId, action: 'seat.in-use', subjectType: 'seat', subjectId: seat.id, detail: { courseSlug } }, trx);
+		await recordAudit({ actorId: userId, action: 'seat.in-use', subjectType: 'seat', subjectId: seatId, detail: { courseSlug } }, trx);
 		return true;
 	});
+}
+
+async function unusedSeatId(userId: string, courseSlug: string, db: DB): Promise<string | null> {
+	const seat = await db
+		.selectFrom('seat')
+		.select('id')
+		.where('holder_id', '=', userId)
+		.where('course_slug', '=', courseSlug)
+		.where('refunded_at', 'is', null)
+		.where('used_at', 'is', null)
+		.executeTakeFirst();
+	return seat?.id ?? null;
 }
 
 export type TakeBackResult = { ok: true } | { ok: false; message: string };

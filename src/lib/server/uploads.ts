@@ -218,9 +218,13 @@ export async function storeCheckedFiles(types: Map<StagedFile, AcceptedType>, st
 }
 
 export async function removeStored(files: ProcessedFile[], store: FileStore): Promise<void> {
-	for (const f of files) {
-		await store.delete(f.storageKey);
-		if (f.thumbnailKey) await store.delete(f.thumbnailKey);
+	await removeKeys(files.flatMap((f) => (f.thumbnailKey ? [f.storageKey, f.thumbnailKey] : [f.storageKey])), store);
+}
+
+/** Best effort: a store that cannot delete now leaves orphans (logged), not a second error over the first. */
+async function removeKeys(keys: string[], store: FileStore): Promise<void> {
+	for (const key of keys) {
+		await store.delete(key).catch((err) => console.error(`Could not remove stored file ${key} after a refused upload:`, err instanceof Error ? err.message : err));
 	}
 }
 
@@ -244,11 +248,11 @@ async function storeImage(file: StagedFile, mediaType: AcceptedType, store: File
 	}
 	const storageKey = randomKey('evidence', ext);
 	const thumbnailKey = randomKey('evidence', 'thumb.jpg');
-	await store.put(storageKey, main.data);
+	await store.put(storageKey, main.data, { contentType: mediaType });
 	try {
-		await store.put(thumbnailKey, thumb);
+		await store.put(thumbnailKey, thumb, { contentType: 'image/jpeg' });
 	} catch (err) {
-		await store.delete(storageKey);
+		await removeKeys([storageKey], store);
 		throw err;
 	}
 	return {
@@ -267,6 +271,6 @@ async function storePdf(file: StagedFile, store: FileStore): Promise<ProcessedFi
 	const hash = createHash('sha256');
 	await pipeline(fs.createReadStream(file.tempPath), hash);
 	const storageKey = randomKey('evidence', 'pdf');
-	const { sizeBytes } = await store.put(storageKey, fs.createReadStream(file.tempPath));
+	const { sizeBytes } = await store.put(storageKey, fs.createReadStream(file.tempPath), { contentType: 'application/pdf' });
 	return { originalName: file.originalName, mediaType: 'application/pdf', storageKey, thumbnailKey: null, sizeBytes, sha256: hash.digest('hex'), widthPx: null, heightPx: null };
 }

@@ -280,6 +280,14 @@ export interface CrewCheckTable {
 	results: string;
 }
 
+/** A scheduled job's lease: the process holding it runs the job until lease_until (see job-lease.ts). */
+export interface JobLeaseTable {
+	job_name: string;
+	holder: string;
+	lease_until: string;
+	taken_at: string;
+}
+
 export interface Database {
 	User: UserTable;
 	Account: AccountTable;
@@ -308,6 +316,7 @@ export interface Database {
 	certificate: CertificateTable;
 	certificate_file: CertificateFileTable;
 	crew_check: CrewCheckTable;
+	job_lease: JobLeaseTable;
 	rate_limit_count: RateLimitCountTable;
 }
 

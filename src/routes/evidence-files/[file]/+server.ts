@@ -2,7 +2,7 @@ import { error } from '@sveltejs/kit';
 import { Readable } from 'node:stream';
 import { requireUser } from '$lib/server/authz';
 import { evidenceFileFor } from '$lib/server/sign-offs';
-import { fileStore } from '$lib/server/storage';
+import { fileStore, StorageUnavailableError } from '$lib/server/storage';
 import type { RequestHandler } from './$types';
 
 /**
@@ -15,8 +15,18 @@ export const GET: RequestHandler = async (event) => {
 	const file = await evidenceFileFor(event.params.file, me);
 	if (!file) error(404, 'No such file.');
 	const thumb = event.url.searchParams.get('size') === 'thumb' && file.thumbnailKey;
-	const object = await fileStore().get(thumb ? file.thumbnailKey! : file.storageKey);
-	if (!object) error(404, 'No such file.');
+	const key = thumb ? file.thumbnailKey! : file.storageKey;
+	const object = await fileStore()
+		.get(key)
+		.catch((err) => {
+			if (!(err instanceof StorageUnavailableError)) throw err;
+			console.error(err.message);
+			error(503, StorageUnavailableError.readerMessage);
+		});
+	if (!object) {
+		console.error(`Evidence file ${event.params.file}: stored object ${key} is missing`);
+		error(404, 'This file is recorded but missing from storage. Ask the training provider to restore it.');
+	}
 	const type = thumb ? 'image/jpeg' : file.mediaType;
 	const asciiName = file.originalName.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_');
 	const disposition = type === 'application/pdf' ? 'attachment' : 'inline';

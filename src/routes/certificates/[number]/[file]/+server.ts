@@ -1,9 +1,11 @@
+import { Readable } from 'node:stream';
 import { error } from '@sveltejs/kit';
 import { decodeJwt } from 'jose';
 import { requireUser } from '$lib/server/authz';
 import { certificateByNumber } from '$lib/server/certificates';
-import { issuedDocument } from '$lib/server/certificate-documents';
+import { IssuedFileMissingError, openIssuedDocument } from '$lib/server/certificate-documents';
 import { mayDownload } from '$lib/server/certificate-access';
+import { StorageUnavailableError } from '$lib/server/storage';
 import type { RequestHandler } from './$types';
 
 const pdfFormats = { 'a4.pdf': 'a4', 'letter.pdf': 'letter', 'card.pdf': 'card' } as const;
@@ -16,10 +18,22 @@ export const GET: RequestHandler = async (event) => {
 	const file = event.params.file;
 	const base = `certificate-${row.number}`;
 	const headers = (type: string, name: string) => ({ 'Content-Type': type, 'Content-Disposition': `attachment; filename="${name}"`, 'Cache-Control': 'private, no-store' });
-	if (file in pdfFormats) {
+	if (Object.hasOwn(pdfFormats, file)) {
 		const format = pdfFormats[file as keyof typeof pdfFormats];
-		const { bytes } = await issuedDocument(row, format);
-		return new Response(bytes as unknown as BodyInit, { headers: headers('application/pdf', `${base}-${format}.pdf`) });
+		const document = await openIssuedDocument(row, format).catch((err) => {
+			if (err instanceof IssuedFileMissingError) {
+				console.error(err.message);
+				error(404, 'The issued PDF of this certificate is missing from storage. The certificate itself stands; ask the training provider to restore the file.');
+			}
+			if (err instanceof StorageUnavailableError) {
+				console.error(err.message);
+				error(503, StorageUnavailableError.readerMessage);
+			}
+			throw err;
+		});
+		return new Response(Readable.toWeb(document.body) as ReadableStream, {
+			headers: { ...headers('application/pdf', `${base}-${format}.pdf`), 'Content-Length': String(document.sizeBytes) }
+		});
 	}
 	if (file === 'credential.jwt') return new Response(row.credential_jwt, { headers: headers('application/jwt', `${base}.jwt`) });
 	if (file === 'credential.json') {
