@@ -136,9 +136,18 @@ describe('two app processes on one PostgreSQL database', () => {
 	}, 180_000);
 
 	afterAll(async () => {
-		for (const app of [a, b]) app?.child.kill('SIGTERM');
+		// SIGTERM, then SIGKILL for a server still running after 5 s: no server outlives the test
+		await Promise.all(
+			[a, b].map(async (app) => {
+				if (!app || app.child.exitCode !== null) return;
+				const exited = new Promise((r) => app.child.once('exit', r));
+				app.child.kill('SIGTERM');
+				const timer = setTimeout(() => app.child.kill('SIGKILL'), 5000);
+				await exited;
+				clearTimeout(timer);
+			})
+		);
 		await db?.destroy();
-		await new Promise((r) => setTimeout(r, 500));
 		if (adminUrl) await admin(`drop database if exists ${database}`).catch(() => undefined);
 		if (dataDir) fs.rmSync(dataDir, { recursive: true, force: true });
 	});
