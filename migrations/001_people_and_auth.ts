@@ -1,4 +1,5 @@
 import { sql, type Kysely } from 'kysely';
+import { appendOnly, idDefault, nowDefault, serialPrimaryKey } from '../src/lib/server/db/engine';
 
 /**
  * People, Auth.js tables (names and columns as @auth/kysely-adapter expects),
@@ -14,12 +15,12 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('emailVerified', 'text')
 		.addColumn('image', 'text')
 		.addColumn('passwordHash', 'text')
-		.addColumn('createdAt', 'text', (c) => c.notNull().defaultTo(sql`(strftime('%Y-%m-%dT%H:%M:%fZ','now'))`))
+		.addColumn('createdAt', 'text', (c) => c.notNull().defaultTo(nowDefault(db)))
 		.execute();
 
 	await db.schema
 		.createTable('Account')
-		.addColumn('id', 'text', (c) => c.primaryKey().defaultTo(sql`(lower(hex(randomblob(16))))`))
+		.addColumn('id', 'text', (c) => c.primaryKey().defaultTo(idDefault(db)))
 		.addColumn('userId', 'text', (c) => c.notNull().references('User.id').onDelete('cascade'))
 		.addColumn('type', 'text', (c) => c.notNull())
 		.addColumn('provider', 'text', (c) => c.notNull())
@@ -36,7 +37,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 	await db.schema
 		.createTable('Session')
-		.addColumn('id', 'text', (c) => c.primaryKey().defaultTo(sql`(lower(hex(randomblob(16))))`))
+		.addColumn('id', 'text', (c) => c.primaryKey().defaultTo(idDefault(db)))
 		.addColumn('userId', 'text', (c) => c.notNull().references('User.id').onDelete('cascade'))
 		.addColumn('sessionToken', 'text', (c) => c.notNull().unique())
 		.addColumn('expires', 'text', (c) => c.notNull())
@@ -85,7 +86,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 	await db.schema
 		.createTable('audit_log')
-		.addColumn('id', 'integer', (c) => c.primaryKey().autoIncrement())
+		.addColumn('id', 'integer', serialPrimaryKey(db))
 		.addColumn('at', 'text', (c) => c.notNull())
 		.addColumn('actor_id', 'text')
 		.addColumn('action', 'text', (c) => c.notNull())
@@ -96,10 +97,7 @@ export async function up(db: Kysely<any>): Promise<void> {
 	await db.schema.createIndex('audit_log_subject_index').on('audit_log').columns(['subject_type', 'subject_id']).execute();
 
 	// The audit log is append-only: the database itself refuses edits and deletions.
-	await sql`create trigger audit_log_no_update before update on audit_log
-		begin select raise(abort, 'audit_log is append-only'); end`.execute(db);
-	await sql`create trigger audit_log_no_delete before delete on audit_log
-		begin select raise(abort, 'audit_log is append-only'); end`.execute(db);
+	await appendOnly(db, 'audit_log');
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -1,4 +1,5 @@
 import { sql, type Kysely } from 'kysely';
+import { floatType, wideIntegerType } from '../src/lib/server/db/engine';
 
 /**
  * Course test attempts. The draw (items with their seeds and question snapshots) and the
@@ -15,13 +16,13 @@ export async function up(db: Kysely<any>): Promise<void> {
 		.addColumn('deadline_at', 'text')
 		.addColumn('submitted_at', 'text')
 		.addColumn('closed_by', 'text', (c) => c.check(sql`closed_by in ('person', 'time limit')`))
-		.addColumn('draw_seed', 'integer', (c) => c.notNull())
+		.addColumn('draw_seed', wideIntegerType(db), (c) => c.notNull())
 		.addColumn('items', 'text', (c) => c.notNull())
 		.addColumn('answers', 'text', (c) => c.notNull().defaultTo('{}'))
 		.addColumn('item_count', 'integer', (c) => c.notNull())
-		.addColumn('pass_mark', 'real', (c) => c.notNull())
+		.addColumn('pass_mark', floatType(db), (c) => c.notNull())
 		.addColumn('correct_count', 'integer')
-		.addColumn('score_percent', 'real')
+		.addColumn('score_percent', floatType(db))
 		.addColumn('passed', 'integer', (c) => c.check(sql`passed in (0, 1)`))
 		.addColumn('results', 'text')
 		.addColumn('wait_waived_at', 'text')

@@ -14,7 +14,7 @@ import { Migrator, type Migration } from 'kysely';
 import { parse as parseYaml } from 'yaml';
 import { boardCatalogue, readBoardQuery, viewBoard, type BoardCourse } from '../src/lib/compliance/board.ts';
 import { companyBoard } from '../src/lib/server/compliance.ts';
-import { openDatabase } from '../src/lib/server/db/connect.ts';
+import { openDatabase } from '../src/lib/server/db/engine.ts';
 
 const root = path.resolve(import.meta.dirname, '..');
 const CREW = 1_000;

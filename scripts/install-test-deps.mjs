@@ -1,12 +1,14 @@
-// Installs what the browser tests need from Debian: chromium (Playwright drives
-// /usr/bin/chromium; it never downloads a browser of its own) and poppler-utils (PDF checks).
+// Installs what the tests need from Debian: chromium (Playwright drives /usr/bin/chromium; it
+// never downloads a browser of its own), poppler-utils (PDF checks) and postgresql (the real
+// server the suites also run against; scripts/postgres-server.mjs starts a throwaway one).
 // Installing needs root; without it, this only says what is missing.
 import { execSync } from 'node:child_process';
 import fs from 'node:fs';
 
 const needed = [
 	{ pkg: 'chromium', file: '/usr/bin/chromium' },
-	{ pkg: 'poppler-utils', file: '/usr/bin/pdftotext' }
+	{ pkg: 'poppler-utils', file: '/usr/bin/pdftotext' },
+	{ pkg: 'postgresql', file: '/usr/lib/postgresql' }
 ];
 const missing = needed.filter((n) => !fs.existsSync(n.file)).map((n) => n.pkg);
 

@@ -5,7 +5,7 @@ import { apiError, apiGuard, errorIds, isApiPath } from '$lib/server/api';
 import { authHandle, authSecret } from '$lib/server/auth';
 import { ConfigError, loadConfig } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
-import { DataDirError } from '$lib/server/db/connect';
+import { DataDirError } from '$lib/server/db/engine';
 import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
@@ -34,9 +34,12 @@ export const init: ServerInit = async () => {
 		}
 		const jobs = startSchedules();
 		// adapter-node emits this once the HTTP server has closed (SIGTERM, SIGINT): the jobs'
-		// timers would otherwise keep the process alive until it is killed.
+		// timers and a PostgreSQL pool's idle connections would otherwise keep the process alive.
 		process.once('sveltekit:shutdown', () => {
 			for (const job of jobs) job.stop();
+			getDb()
+				.destroy()
+				.catch((e) => console.error('Closing the database failed:', e));
 		});
 	} catch (e) {
 		// A setting, the data folder or the file store is wrong: one line that says which, not a stack trace.

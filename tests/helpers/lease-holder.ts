@@ -2,7 +2,7 @@
  * A separate process that takes a job lease and holds it until killed (tests/unit/job-lease.test.ts).
  * Usage: node --import jiti/register tests/helpers/lease-holder.ts <sqlite file> <job> <lease ms>
  */
-import { openDatabase } from '../../src/lib/server/db/connect';
+import { openDatabase } from '../../src/lib/server/db/engine';
 import { runExclusive } from '../../src/lib/server/job-lease';
 
 const [file, job, leaseMs] = process.argv.slice(2);

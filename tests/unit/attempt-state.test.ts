@@ -7,12 +7,12 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { Migrator, type Kysely, type Migration } from 'kysely';
 import { listAudit } from '$lib/server/audit';
 import { closeDueAttempts, getAttempt, hasPassedTest, reviewAttempt, saveAnswer, startAttempt, submitAttempt, testStatus } from '$lib/server/attempts';
-import { openDatabase } from '$lib/server/db/connect';
+import { openDatabase } from '$lib/server/db/engine';
 import { enrol } from '$lib/server/enrolments';
 import { createUser } from '$lib/server/users';
 import type { DrawnItem } from '$lib/practice/test-items';
 import { rightAnswer } from '../helpers/answer-key';
-import { createTestDb } from '../helpers/db';
+import { createTestDb, testEngine } from '../helpers/db';
 
 const COURSE = 'packer-pressure-safety'; // 20 items, 40 minutes
 const T0 = new Date('2025-03-03T08:00:00.000Z');
@@ -36,23 +36,28 @@ describe('attempt state', () => {
 	}
 
 	it('keeps every answer of many concurrent saves, and a submit racing them closes once with exactly the saves it saw', async () => {
+		// On SQLite these run one after another in the order asked; on a PostgreSQL server they
+		// interleave (the pool has several connections), so what holds is checked, not an order.
 		const { id, items } = await begin();
-		const saves = items.map((item, position) => saveAnswer(sam, id, position, rightAnswer(item), { db, now: T0 }));
-		const [submitted, ...more] = await Promise.all([
-			Promise.all(saves),
+		const save = (position: number) => saveAnswer(sam, id, position, rightAnswer(items[position]), { db, now: T0 });
+		const [early, ...more] = await Promise.all([
+			Promise.all(items.map((_, position) => save(position))),
 			submitAttempt(sam, id, { db, now: T0 }),
 			submitAttempt(sam, id, { db, now: T0 }),
-			...items.map((item, position) => saveAnswer(sam, id, position, rightAnswer(item), { db, now: T0 }))
+			...items.map((_, position) => save(position))
 		]);
-		expect(submitted.every((s) => s.ok)).toBe(true);
 		const submits = more.slice(0, 2) as Awaited<ReturnType<typeof submitAttempt>>[];
 		expect(submits.filter((s) => s.ok)).toHaveLength(1);
-		const lateSaves = more.slice(2) as Awaited<ReturnType<typeof saveAnswer>>[];
-		expect(lateSaves.every((s) => !s.ok && s.status === 409)).toBe(true);
-		expect(await db.selectFrom('test_answer').select('position').where('attempt_id', '=', id).execute()).toHaveLength(20);
+		const saves = [...early, ...(more.slice(2) as Awaited<ReturnType<typeof saveAnswer>>[])];
+		expect(saves.every((s) => s.ok || s.status === 409)).toBe(true);
+		const acknowledged = new Set(saves.map((s, i) => (s.ok ? i % items.length : -1)).filter((p) => p >= 0));
+		if (testEngine !== 'postgres') expect(acknowledged.size).toBe(20);
+		// every acknowledged save was graded, and nothing else was stored
+		const stored = (await db.selectFrom('test_answer').select('position').where('attempt_id', '=', id).orderBy('position').execute()).map((r) => r.position);
+		expect(stored).toEqual([...acknowledged].sort((x, y) => x - y));
 		expect(await db.selectFrom('test_item_result').select('position').where('attempt_id', '=', id).execute()).toHaveLength(20);
 		const review = await reviewAttempt(sam, id, { db, now: T0 });
-		expect(review).toMatchObject({ correctCount: 20, passed: true });
+		expect(review).toMatchObject({ correctCount: acknowledged.size });
 		expect((await listAudit({ subjectId: id }, db)).filter((e) => e.action === 'test.submit')).toHaveLength(1);
 	});
 

@@ -1,18 +1,16 @@
 import fs from 'node:fs';
-import path from 'node:path';
 import { afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { getCourse } from '$lib/content';
 import { listAudit } from '$lib/server/audit';
 import { addMonths, checkNumbers, findCertificate, issueIfEarned, listWaitingForOne, reissueWithName, revokeCertificate } from '$lib/server/certificates';
-import { openDatabase } from '$lib/server/db/connect';
-import { migrateToLatest } from '$lib/server/db/migrate';
 import { recordPassedTest, recordSignOffs, recordWaitingEvidence } from '$lib/server/demo-certificates';
 import { enrol } from '$lib/server/enrolments';
 import { seedDemo } from '$lib/server/demo-seed';
 import { assessSubmission } from '$lib/server/sign-offs';
 import { listCertificatesForRegistrar } from '$lib/server/certificates';
 import { issuerKeyFile } from '$lib/server/issuer-key';
-import { createTestDb } from '../helpers/db';
+import { isDatabaseBusy } from '$lib/server/db/errors';
+import { createSharedTestDbs, createTestDb, destroyAll } from '../helpers/db';
 import { makeTraineeAndTrainer, useTemporaryDataDir } from '../helpers/certificates';
 
 const day = (iso: string) => new Date(`${iso}T10:00:00Z`);
@@ -110,10 +108,8 @@ describe('certificate issuance', () => {
 	});
 
 	it('two requests racing over separate connections make exactly one certificate', async () => {
-		const file = path.join(dataDir, `race-${crypto.randomUUID()}.sqlite`);
-		const a = openDatabase(file);
-		await migrateToLatest(a);
-		const b = openDatabase(file);
+		// two handles with connections of their own on one database, as two processes have
+		const [a, b] = await createSharedTestDbs(2);
 		const { trainee, trainer } = await makeTraineeAndTrainer(a, BASIC);
 		await recordPassedTest(trainee.id, BASIC, day('2026-10-01'), a);
 		await recordSignOffs(trainee.id, BASIC, trainer, day('2026-10-02'), a);
@@ -127,8 +123,36 @@ describe('certificate issuance', () => {
 		const rows = await a.selectFrom('certificate').select(['number']).execute();
 		expect(rows).toHaveLength(1);
 		for (const o of outcomes) expect(o.certificate?.number).toBe(rows[0].number);
-		await a.destroy();
-		await b.destroy();
+		await destroyAll([a, b]);
+	});
+
+	it('two registrars racing to re-issue or revoke one certificate change it once', async () => {
+		const [a, b] = await createSharedTestDbs(2);
+		const { trainee, trainer } = await makeTraineeAndTrainer(a, BASIC);
+		await recordPassedTest(trainee.id, BASIC, day('2026-10-01'), a);
+		await recordSignOffs(trainee.id, BASIC, trainer, day('2026-10-02'), a);
+		const issued = await issueIfEarned(trainee.id, BASIC, { db: a, now: day('2026-10-02') });
+		if (!issued.issued) throw new Error('not issued');
+		const number = issued.certificate.number;
+		// a refusal is a 409, or on SQLite a busy write lock (the request would answer 503)
+		const settle = (p: Promise<{ ok: boolean }>) => p.catch((e) => (isDatabaseBusy(e) ? { ok: false } : Promise.reject(e)));
+		const reissues = await Promise.all([
+			settle(reissueWithName(trainer.id, number, 'Name One', { db: a, now: day('2026-10-03') })),
+			settle(reissueWithName(trainer.id, number, 'Name Two', { db: b, now: day('2026-10-03') })),
+			settle(reissueWithName(trainer.id, number, 'Name Three', { db: a, now: day('2026-10-03') })),
+			settle(reissueWithName(trainer.id, number, 'Name Four', { db: b, now: day('2026-10-03') }))
+		]);
+		expect(reissues.filter((r) => r.ok)).toHaveLength(1);
+		const current = await a.selectFrom('certificate').select(['number', 'holder_name']).where('slot', 'is not', null).execute();
+		expect(current).toHaveLength(1);
+		expect((await a.selectFrom('certificate').select('id').execute()).length).toBe(2);
+		const revokes = await Promise.all(
+			[a, b, a, b].map((h) => settle(revokeCertificate(trainer.id, current[0].number, 'misconduct', 'Raced', { db: h, now: day('2026-10-04') })))
+		);
+		expect(revokes.filter((r) => r.ok)).toHaveLength(1);
+		const actions = (await listAudit({ subjectType: 'certificate' }, a)).map((e) => e.action).sort();
+		expect(actions).toEqual(['certificate.issue', 'certificate.issue', 'certificate.replace', 'certificate.revoke']);
+		await destroyAll([a, b]);
 	});
 
 	it('revokes with a reason the public never sees, re-issues after a name correction, audits both', async () => {

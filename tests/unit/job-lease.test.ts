@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { openDatabase } from '$lib/server/db/connect';
+import { openDatabase } from '$lib/server/db/engine';
 import type { DB } from '$lib/server/db';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { leaseHolder, runExclusive } from '$lib/server/job-lease';

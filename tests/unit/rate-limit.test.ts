@@ -2,8 +2,9 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
-import { beforeEach, describe, expect, it } from 'vitest';
-import { clear, hit, refuseIfLimited, resetAll, useLimitStore } from '$lib/server/rate-limit';
+import { afterEach, beforeEach, describe, expect, it } from 'vitest';
+import { clear, hit, refuseIfLimited, resetAll, sweepEndedWindows, useLimitStore } from '$lib/server/rate-limit';
+import { createSharedTestDbs, destroyAll, testEngine } from '../helpers/db';
 
 describe('rate limiter (rate-limiter-flexible on a SQLite table)', () => {
 	beforeEach(() => {
@@ -57,5 +58,50 @@ describe('rate limiter (rate-limiter-flexible on a SQLite table)', () => {
 		expect(refused.status).toBe(429);
 		expect(Number(refused.headers.get('retry-after'))).toBeGreaterThan(0);
 		expect(await refused.json()).toEqual({ error: { code: 'rate_limited', message: expect.stringContaining('Try again') } });
+	});
+});
+
+describe(`rate limits in the main database (${testEngine}), as with DATABASE_URL`, () => {
+	let dbs: Awaited<ReturnType<typeof createSharedTestDbs>> = [];
+	beforeEach(async () => {
+		dbs = await createSharedTestDbs(2);
+		useLimitStore(dbs[0]);
+	});
+	afterEach(async () => {
+		resetAll();
+		await destroyAll(dbs);
+	});
+
+	it('allows the limit, refuses with the wait, keeps keys apart and forgets a key on clear', async () => {
+		for (let i = 0; i < 3; i++) expect((await hit('b', 'k', 3, 60_000)).ok).toBe(true);
+		const refused = await hit('b', 'k', 3, 60_000);
+		expect(refused).toEqual({ ok: false, retryAfterSeconds: expect.any(Number) });
+		expect(refused.retryAfterSeconds).toBeGreaterThan(55);
+		expect(refused.retryAfterSeconds).toBeLessThanOrEqual(60);
+		expect((await hit('b', 'other', 3, 60_000)).ok).toBe(true);
+		expect((await hit('c', 'k', 3, 60_000)).ok).toBe(true);
+		await clear('b', 'k');
+		expect((await hit('b', 'k', 3, 60_000)).ok).toBe(true);
+	});
+
+	it('starts a new window once the old one ended, and the sweep removes ended windows', async () => {
+		await dbs[0].insertInto('rate_limit_count').values({ key: 'b:old', points: 99, expire_ms: Date.now() - 1 }).execute();
+		expect((await hit('b', 'old', 2, 60_000)).ok).toBe(true);
+		await dbs[0].insertInto('rate_limit_count').values({ key: 'b:gone', points: 1, expire_ms: Date.now() - 1 }).execute();
+		expect(await sweepEndedWindows()).toBe(1);
+		expect((await dbs[0].selectFrom('rate_limit_count').select(['key', 'points']).execute())).toEqual([{ key: 'b:old', points: 1 }]);
+	});
+
+	it('two processes on one database enforce one limit, also when their hits race', async () => {
+		// each handle has its own connections, as two app processes would
+		const verdicts = await Promise.all(
+			Array.from({ length: 20 }, (_, i) => {
+				useLimitStore(dbs[i % 2]);
+				return hit('sign-in-email', 'a@example.test', 7, 60_000);
+			})
+		);
+		expect(verdicts.filter((v) => v.ok)).toHaveLength(7);
+		const row = await dbs[1].selectFrom('rate_limit_count').select('points').where('key', '=', 'sign-in-email:a@example.test').executeTakeFirstOrThrow();
+		expect(Number(row.points)).toBe(20);
 	});
 });

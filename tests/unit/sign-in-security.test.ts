@@ -9,7 +9,7 @@ import { signUpSchema } from '$lib/forms';
 import { confirmAddress, sendAddressConfirmation } from '$lib/server/address-confirmation';
 import { ConfigError, parseConfig, reloadConfig } from '$lib/server/config';
 import { inTransaction } from '$lib/server/db';
-import { DataDirError, ensureWritableDir, openDatabase } from '$lib/server/db/connect';
+import { DataDirError, ensureWritableDir, openDatabase } from '$lib/server/db/engine';
 import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { isResetTokenUsable, requestPasswordReset, resetPassword } from '$lib/server/password-reset';

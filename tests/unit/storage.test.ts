@@ -216,7 +216,7 @@ describe('S3 settings', () => {
 
 	it('carry the key pair only when both halves are given', () => {
 		expect(parseConfig({ ...base, ...S3_FAKE_KEY_ENV }).s3?.credentials).toEqual(S3_FAKE_KEY);
-		expect(() => parseConfig({ ...base, S3_ACCESS_KEY_ID: 'AKIDEXAMPLE' })).toThrow('Setting S3_SECRET_ACCESS_KEY="" must be set together with the other S3 key.');
+		expect(() => parseConfig({ ...base, S3_ACCESS_KEY_ID: 'AKIDEXAMPLE' })).toThrow('Setting S3_SECRET_ACCESS_KEY=(hidden) must be set together with the other S3 key.');
 		expect(() => parseConfig({ ...base, S3_SECRET_ACCESS_KEY: 'secret-value' })).toThrow(/^Setting S3_ACCESS_KEY_ID="" must be set/);
 	});
 

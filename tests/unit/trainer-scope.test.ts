@@ -13,7 +13,7 @@ import { itemStatistics } from '$lib/server/item-stats';
 import { grantRole, setTrainerScope } from '$lib/server/roles';
 import { trainerMaySee, trainerScope } from '$lib/server/trainer-scope';
 import { createUser } from '$lib/server/users';
-import { openDatabase } from '$lib/server/db/connect';
+import { openDatabase } from '$lib/server/db/engine';
 import { Migrator, type Kysely, type Migration } from 'kysely';
 import { createTestDb } from '../helpers/db';
 

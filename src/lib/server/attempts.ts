@@ -20,6 +20,7 @@
  * - `now` is a parameter so that tests can move the clock (deadlines, waiting time).
  */
 import { isUniqueViolation } from './db/errors';
+import { lockingRows } from './db/engine';
 import type { Selectable } from 'kysely';
 import { getCourse, type Course } from '$lib/content';
 import { lessonForGenerator } from '$lib/practice/course-lessons';
@@ -146,8 +147,14 @@ function isPastDeadline(row: Row, now: Date): boolean {
 	return row.deadline_at !== null && now.getTime() > Date.parse(row.deadline_at) + LATE_GRACE_MS;
 }
 
-async function ownAttempt(db: DB, userId: string, attemptId: string): Promise<Row | undefined> {
-	return db.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).where('user_id', '=', userId).executeTakeFirst();
+/**
+ * `forChange`: the row stays locked until the transaction ends (PostgreSQL; SQLite's write
+ * transaction holds the whole database), so saves and the close of one attempt take turns and a
+ * close grades every answer whose save was acknowledged.
+ */
+async function ownAttempt(db: DB, userId: string, attemptId: string, forChange = false): Promise<Row | undefined> {
+	const query = db.selectFrom('test_attempt').selectAll().where('id', '=', attemptId).where('user_id', '=', userId);
+	return (forChange ? lockingRows(db, query) : query).executeTakeFirst();
 }
 
 // ---------------------------------------------------------------- grading
@@ -177,6 +184,9 @@ function graded(row: Row, answers: Answers, closedBy: 'person' | 'time limit', a
  */
 async function close(db: DB, row: Row, closedBy: 'person' | 'time limit', at: Date, actorId: string | null): Promise<Row> {
 	return inTransaction(db, async (trx) => {
+		// Answers are read under the attempt's row lock: no save can land between grading and closing.
+		const current = await lockingRows(trx, trx.selectFrom('test_attempt').select('submitted_at').where('id', '=', row.id)).executeTakeFirst();
+		if (!current || current.submitted_at !== null) return (await trx.selectFrom('test_attempt').selectAll().where('id', '=', row.id).executeTakeFirstOrThrow()) as Row;
 		const done = graded(row, await answersOf(trx, row.id), closedBy, at);
 		const { submitted_at, closed_by, correct_count, score_percent, passed } = done.row;
 		const update = await trx
@@ -417,7 +427,7 @@ export async function saveAnswer(
 	{ db = defaultDb, now = new Date() }: Options = {}
 ): Promise<{ ok: true; savedAt: string } | Refusal> {
 	return inTransaction(db, async (trx) => {
-		const row = await ownAttempt(trx, userId, attemptId);
+		const row = await ownAttempt(trx, userId, attemptId, true);
 		if (!row) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
 		if (row.submitted_at !== null) return { ok: false, status: 409, reason: 'submitted', message: 'This attempt is already submitted; answers can no longer change.' };
 		if (isPastDeadline(row, now)) {
@@ -459,7 +469,7 @@ export async function submitAttempt(
 	{ db = defaultDb, now = new Date() }: Options = {}
 ): Promise<{ ok: true; summary: AttemptSummary } | Refusal> {
 	return inTransaction(db, async (trx) => {
-		const row = await ownAttempt(trx, userId, attemptId);
+		const row = await ownAttempt(trx, userId, attemptId, true);
 		if (!row) return { ok: false, status: 404, reason: 'not-found', message: 'No such attempt.' };
 		if (row.submitted_at !== null) {
 			return { ok: false, status: 409, reason: 'already-submitted', message: 'This attempt was already submitted.', summary: summarise(row) };
@@ -589,7 +599,13 @@ export async function waiveWait(
 		if (!latest || latest.id !== row.id || status?.blocked?.reason !== 'waiting') {
 			return { ok: false, status: 409, reason: 'not-waiting', message: 'This trainee is not waiting to retake this test.' };
 		}
-		await trx.updateTable('test_attempt').set({ wait_waived_at: now.toISOString(), wait_waived_by: actorId }).where('id', '=', row.id).execute();
+		const waived = await trx
+			.updateTable('test_attempt')
+			.set({ wait_waived_at: now.toISOString(), wait_waived_by: actorId })
+			.where('id', '=', row.id)
+			.where('wait_waived_at', 'is', null)
+			.executeTakeFirst();
+		if (Number(waived.numUpdatedRows) !== 1) return { ok: false, status: 409, reason: 'not-waiting', message: 'This trainee is not waiting to retake this test.' };
 		await recordAudit(
 			{ actorId, action: 'test.wait-waived', subjectType: 'test_attempt', subjectId: row.id, detail: { userId: row.user_id, courseSlug: row.course_slug, reason } },
 			trx

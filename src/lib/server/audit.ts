@@ -1,6 +1,6 @@
-import { sql } from 'kysely';
 import type { AuditView } from '$lib/audit-words';
 import { db as defaultDb, type DB } from './db';
+import { containsText } from './db/engine';
 
 export interface AuditRecord {
 	actorId: string | null;
@@ -60,10 +60,6 @@ export interface AuditFilter {
 	limit?: number;
 }
 
-function escapeLike(text: string): string {
-	return text.replace(/[\\%_]/g, (c) => `\\${c}`);
-}
-
 /**
  * Audit entries, newest first, filtered and resolved into what a person reads: who did it and
  * whom it is about, by name. One more row than `limit` is read to tell whether older ones exist.
@@ -81,12 +77,11 @@ export async function searchAudit(filter: AuditFilter, db: DB = defaultDb): Prom
 	if (filter.before !== undefined) query = query.where('id', '<', filter.before);
 	const person = filter.person?.trim().toLowerCase();
 	if (person) {
-		const pattern = `%${escapeLike(person)}%`;
 		const ids = (
 			await db
 				.selectFrom('User')
 				.select('id')
-				.where((eb) => eb.or([eb('email', 'like', sql<string>`${pattern} escape '\\'`), eb(eb.fn('lower', ['name']), 'like', sql<string>`${pattern} escape '\\'`)]))
+				.where((eb) => eb.or([containsText(eb, eb.ref('email'), person), containsText(eb, eb.ref('name'), person)]))
 				.limit(200)
 				.execute()
 		).map((u) => u.id);

@@ -1,4 +1,5 @@
-import { KyselyAdapter } from '@auth/kysely-adapter';
+import { format, KyselyAdapter } from '@auth/kysely-adapter';
+import type { Adapter } from '@auth/core/adapters';
 import { CredentialsSignin } from '@auth/core/errors';
 import { SvelteKitAuth, type SvelteKitAuthConfig } from '@auth/sveltekit';
 import Credentials from '@auth/sveltekit/providers/credentials';
@@ -29,12 +30,32 @@ class TooManyAttempts extends CredentialsSignin {
 
 let authConfig: SvelteKitAuthConfig | undefined;
 
+/**
+ * Times in the Auth.js tables are ISO text on every engine, but the Kysely adapter turns Dates
+ * into text (and back) only on SQLite; on PostgreSQL a link's expiry would come back as a string
+ * that Auth.js cannot compare. Converting both ways around every call is a no-op on SQLite.
+ */
+function withTextDates(adapter: Adapter): Adapter {
+	const toText = (value: unknown) => (value && typeof value === 'object' && !(value instanceof Date) ? format.to(value) : value);
+	const wrapped: Record<string, unknown> = {};
+	for (const [name, method] of Object.entries(adapter)) {
+		if (typeof method !== 'function') continue;
+		wrapped[name] = async (...args: unknown[]) => {
+			const result = await method(...args.map(toText));
+			if (!result || typeof result !== 'object') return result;
+			if ('user' in result && 'session' in result) return { user: format.from(result.user), session: format.from(result.session) };
+			return format.from(result);
+		};
+	}
+	return wrapped as Adapter;
+}
+
 /** Built on first use so that importing this module opens no database (for example during a build). */
 function getAuthConfig(): SvelteKitAuthConfig {
 	if (authConfig) return authConfig;
 	const db = getDb();
 	// The adapter's types are generic over its own four tables; ours has more.
-	const adapter = KyselyAdapter(db as never);
+	const adapter = withTextDates(KyselyAdapter(db as never));
 	authConfig = {
 		adapter: {
 			...adapter,

@@ -8,6 +8,7 @@ import { isDatabaseBusy, isUniqueViolation } from './db/errors';
 import type { CertificateTable } from './db/schema';
 import { openRenewalOf } from './renewal-open';
 import { signedOffSkills } from './sign-offs';
+import { containsText } from './db/engine';
 
 /**
  * Certificates: issued the moment the last requirement is met, revoked with a reason,
@@ -171,12 +172,6 @@ async function insertCertificate(
 	}
 }
 
-/** SQLite refuses a write from a transaction whose snapshot another connection has moved past. */
-function isWriteConflict(e: unknown): boolean {
-	const code = (e as { code?: unknown } | null)?.code;
-	return code === 'SQLITE_BUSY' || code === 'SQLITE_BUSY_SNAPSHOT' || code === '40001';
-}
-
 export type IssueOutcome =
 	| { issued: true; certificate: CertificateRow }
 	| { issued: false; reason: 'unknown-course' | 'already-held' | 'requirements'; certificate?: CertificateRow; check?: RequirementCheck };
@@ -239,7 +234,7 @@ export async function issueIfEarned(
 			outcome = await attempt();
 		} catch (e) {
 			// another process holds the write lock or issued meanwhile: wait a moment and look again
-			if (db.isTransaction || !(isWriteConflict(e) || isDatabaseBusy(e)) || tries >= 8) throw e;
+			if (db.isTransaction || !isDatabaseBusy(e) || tries >= 8) throw e;
 			await new Promise((r) => setTimeout(r, 25 * (tries + 1)));
 		}
 	}
@@ -516,12 +511,15 @@ export async function revokeCertificate(
 		if (row.replaced_by_id) return { ok: false, status: 409, message: 'This certificate was replaced; revoke the one that replaced it.' };
 		const text = note.trim() ? `${revocationReasons[reason]}: ${note.trim()}` : revocationReasons[reason];
 		const revokedAt = now.toISOString();
-		await trx
+		const revoked = await trx
 			.updateTable('certificate')
 			.set({ revoked_at: revokedAt, revoked_by: actorId, revocation_reason: text })
 			.where('id', '=', row.id)
 			.where('revoked_at', 'is', null)
-			.execute();
+			.where('replaced_by_id', 'is', null)
+			.executeTakeFirst();
+		// another registrar revoked or replaced it between the read and this write
+		if (Number(revoked.numUpdatedRows) !== 1) return { ok: false, status: 409, message: 'This certificate changed meanwhile; reload it.' };
 		await recordAudit({ actorId, action: 'certificate.revoke', subjectType: 'certificate', subjectId: row.id, detail: { number: row.number, reason, note: note.trim() } }, trx);
 		return { ok: true, certificate: { ...row, revoked_at: revokedAt, revoked_by: actorId, revocation_reason: text } };
 	});
@@ -545,7 +543,16 @@ export async function reissueWithName(
 		if (old.revoked_at) return { ok: false, status: 409, message: 'A revoked certificate cannot be re-issued.' };
 		if (old.replaced_by_id) return { ok: false, status: 409, message: 'This certificate was already replaced.' };
 		if (name === old.holder_name) return { ok: false, status: 409, message: 'The name is unchanged.' };
-		await trx.updateTable('certificate').set({ slot: null }).where('id', '=', old.id).execute();
+		const released = await trx
+			.updateTable('certificate')
+			.set({ slot: null })
+			.where('id', '=', old.id)
+			.where('slot', 'is not', null)
+			.where('revoked_at', 'is', null)
+			.where('replaced_by_id', 'is', null)
+			.executeTakeFirst();
+		// another registrar revoked or re-issued it between the read and this write
+		if (Number(released.numUpdatedRows) !== 1) return { ok: false, status: 409, message: 'This certificate changed meanwhile; reload it.' };
 		const fresh = (await insertCertificate(
 			{
 				slot: old.slot,
@@ -619,7 +626,7 @@ export async function listCertificatesForRegistrar(query = '', { db = defaultDb,
 		.limit(limit);
 	const parsed = parseNumber(query);
 	if (parsed.ok) q = q.where('certificate.number', '=', parsed.formatted);
-	else if (query.trim()) q = q.where('certificate.holder_name', 'like', `%${query.trim().replace(/[\\%_]/g, (c) => `\\${c}`)}%`);
+	else if (query.trim()) q = q.where((eb) => containsText(eb, eb.ref('certificate.holder_name'), query.trim()));
 	const rows = await q.execute();
 	return rows.map((r) => ({ ...publicView(r, now), revocationReason: r.revocation_reason }));
 }

@@ -4,8 +4,9 @@ import { calculateJwkThumbprint, exportJWK, generateKeyPair, importJWK, type Cry
 import { config } from './config';
 
 /**
- * The issuer's Ed25519 signing key (RFC 8037 OKP JWK), created on first use and kept in
- * `DATA_DIR/issuer-key.json` with mode 0600. The public half is published at
+ * The issuer's Ed25519 signing key (RFC 8037 OKP JWK): the ISSUER_KEY setting when set (several
+ * processes must sign with one key, and a data folder is not shared between machines), otherwise
+ * created on first use and kept in `DATA_DIR/issuer-key.json` with mode 0600. The public half is published at
  * `/.well-known/jwks.json` and in the issuer profile.
  */
 export interface IssuerKey {
@@ -21,6 +22,7 @@ export function issuerKeyFile(dataDir = config.dataDir): string {
 }
 
 async function loadOrCreate(file: string): Promise<IssuerKey> {
+	if (config.issuerKey) return fromPrivateJwk(config.issuerKey as JWK);
 	let privateJwk: JWK;
 	if (fs.existsSync(file)) {
 		privateJwk = JSON.parse(fs.readFileSync(file, 'utf8'));
@@ -38,6 +40,10 @@ async function loadOrCreate(file: string): Promise<IssuerKey> {
 		}
 	}
 	fs.chmodSync(file, 0o600);
+	return fromPrivateJwk(privateJwk);
+}
+
+async function fromPrivateJwk(privateJwk: JWK): Promise<IssuerKey> {
 	const { d: _secret, ...publicJwk } = privateJwk;
 	const kid = privateJwk.kid ?? (await calculateJwkThumbprint(publicJwk));
 	return {
@@ -47,7 +53,7 @@ async function loadOrCreate(file: string): Promise<IssuerKey> {
 	};
 }
 
-/** The key under the current DATA_DIR, loaded once per process. */
+/** The configured key or the one under the current DATA_DIR, loaded once per process. */
 export function issuerKey(dataDir = config.dataDir): Promise<IssuerKey> {
 	const file = issuerKeyFile(dataDir);
 	let key = loaded.get(file);

@@ -2,6 +2,7 @@ import { Cron } from 'croner';
 import { closeDueAttempts } from './attempts';
 import { runExclusive } from './job-lease';
 import { sendDueReminders } from './reminders';
+import { sweepEndedWindows } from './rate-limit';
 
 /**
  * Jobs that run while the server is up. Every process keeps the timers; each run takes the job's
@@ -21,7 +22,11 @@ export function startSchedules(): Cron[] {
 	setTimeout(() => {
 		if (!reminders.isStopped()) void reminders.trigger();
 	}, 2_000).unref?.();
-	return [closeDue, reminders];
+	// Rate-limit windows in the main database (PostgreSQL only): deleting ended ones twice is harmless.
+	const sweepLimits = new Cron('17 * * * *', { protect: true, catch: (e) => console.error('Sweeping rate-limit windows failed:', e) }, async () => {
+		await runExclusive('sweep-rate-limit-windows', 50 * 60_000, () => sweepEndedWindows());
+	});
+	return [closeDue, reminders, sweepLimits];
 }
 
 async function runReminders(): Promise<void> {

@@ -3,7 +3,7 @@ import type { CompanyMembership, Identity, Role } from '$lib/roles';
 import { config } from './config';
 import { recordAudit } from './audit';
 import { db as defaultDb, getDb, inTransaction, type DB } from './db';
-import { sqliteHandle } from './db/connect';
+import { sqliteHandle } from './db/engine';
 import { isDatabaseBusy } from './db/errors';
 import { loadIdentity } from './roles';
 

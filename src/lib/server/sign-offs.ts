@@ -372,12 +372,13 @@ export async function withdrawEvidence(submissionId: string, traineeId: string, 
 		const row = await trx.selectFrom('practical_submission').select(['trainee_id', 'status', 'in_person']).where('id', '=', submissionId).executeTakeFirst();
 		if (!row || row.trainee_id !== traineeId || row.in_person === 1) throw new SignOffError(404, 'No such evidence.');
 		if (row.status !== 'waiting') throw new SignOffError(409, 'Only evidence still waiting for a trainer can be withdrawn.');
-		await trx
+		const withdrawn = await trx
 			.updateTable('practical_submission')
 			.set({ status: 'withdrawn', closed_at: new Date().toISOString() })
 			.where('id', '=', submissionId)
 			.where('status', '=', 'waiting')
-			.execute();
+			.executeTakeFirst();
+		if (Number(withdrawn.numUpdatedRows) !== 1) throw new SignOffError(409, 'Only evidence still waiting for a trainer can be withdrawn.');
 		await recordAudit({ actorId: traineeId, action: 'evidence.withdraw', subjectType: 'practical_submission', subjectId: submissionId }, trx);
 	});
 }
@@ -598,11 +599,13 @@ export async function voidSignOff(signOffId: string, registrarId: string, reason
 		const row = await trx.selectFrom('sign_off').select(['id', 'user_id', 'course_slug', 'skill_id', 'voided_at']).where('id', '=', signOffId).executeTakeFirst();
 		if (!row) throw new SignOffError(404, 'No such sign-off.');
 		if (row.voided_at) throw new SignOffError(409, 'This sign-off is already voided.');
-		await trx
+		const voided = await trx
 			.updateTable('sign_off')
 			.set({ voided_at: new Date().toISOString(), voided_by: registrarId, void_reason: parsed.data })
 			.where('id', '=', signOffId)
-			.execute();
+			.where('voided_at', 'is', null)
+			.executeTakeFirst();
+		if (Number(voided.numUpdatedRows) !== 1) throw new SignOffError(409, 'This sign-off is already voided.');
 		await recordAudit(
 			{ actorId: registrarId, action: 'practical.void', subjectType: 'sign_off', subjectId: signOffId, detail: { userId: row.user_id, courseSlug: row.course_slug, skillId: row.skill_id, reason: parsed.data } },
 			trx

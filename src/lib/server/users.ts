@@ -1,6 +1,7 @@
 import { db as defaultDb, inTransaction, type DB } from './db';
 import { isUniqueViolation } from './db/errors';
 import { hashPassword, verifyPassword } from './passwords';
+import { containsText } from './db/engine';
 
 /** E-mail addresses are compared lower-cased and trimmed everywhere. */
 export function normaliseEmail(email: string): string {
@@ -40,7 +41,8 @@ export async function createUser(
 		name: input.name.trim(),
 		passwordHash: input.password ? await hashPassword(input.password) : null,
 		emailVerified: input.emailVerified ? new Date().toISOString() : null,
-		image: null
+		image: null,
+		createdAt: new Date().toISOString()
 	};
 	try {
 		await db.insertInto('User').values(user).execute();
@@ -71,7 +73,7 @@ export async function signUp(input: { email: string; name: string; password?: st
 					return { id: existing.id, email, isNew: false };
 				}
 				const id = crypto.randomUUID();
-				await trx.insertInto('User').values({ id, email, name: input.name.trim(), passwordHash, emailVerified: null, image: null }).execute();
+				await trx.insertInto('User').values({ id, email, name: input.name.trim(), passwordHash, emailVerified: null, image: null, createdAt: new Date().toISOString() }).execute();
 				return { id, email, isNew: true };
 			});
 		} catch (e) {
@@ -108,11 +110,11 @@ export async function dropUnconfirmedPassword(userId: string, db: DB = defaultDb
 }
 
 export function searchUsers(query: string, db: DB = defaultDb) {
-	const pattern = `%${query.trim().toLowerCase()}%`;
+	const text = query.trim();
 	return db
 		.selectFrom('User')
 		.select(publicColumns)
-		.where((eb) => eb.or([eb('email', 'like', pattern), eb(eb.fn('lower', ['name']), 'like', pattern)]))
+		.where((eb) => eb.or([containsText(eb, eb.ref('email'), text), containsText(eb, eb.ref('name'), text)]))
 		.orderBy('email')
 		.limit(50)
 		.execute();

@@ -319,6 +319,15 @@ export interface Database {
 	job_lease: JobLeaseTable;
 	certificate_reminder: CertificateReminderTable;
 	renewal: RenewalTable;
+	rate_limit_count: RateLimitCountTable;
+}
+
+/** One rate-limit window per bucket and key, when the database is PostgreSQL (see rate-limit.ts). */
+export interface RateLimitCountTable {
+	key: string;
+	points: number;
+	/** End of the window, epoch milliseconds. */
+	expire_ms: number;
 }
 
 export type User = Selectable<UserTable>;
