@@ -166,7 +166,7 @@ describe('evidence uploads', () => {
 		let puts = 0;
 		const flaky: FileStore = {
 			kind: 'filesystem',
-			put: (key, body, info) => (++puts === 2 ? Promise.reject(new StorageUnavailableError(`Could not store stored file ${key} (ECONNRESET).`)) : store.put(key, body, info)),
+			put: (key, body, info) => (++puts === 2 ? Promise.reject(new StorageUnavailableError(`Could not store stored file ${key} (ECONNRESET).`)) : (store as FileStore).put(key, body, info)),
 			get: (key) => store.get(key),
 			exists: (key) => store.exists(key),
 			delete: (key) => store.delete(key)
