@@ -1,7 +1,9 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
-import { apiError, apiGuard, errorIds, isApiPath } from '$lib/server/api';
+import { apiGuard, busyAnswer, BUSY_MESSAGE, errorIds, isApiPath, toResponse } from '$lib/server/api';
+import { publishFastApi } from '$lib/server/fast-api';
+import { setSecurityHeaders } from '$lib/server/security-headers';
 import { authHandle, authSecret } from '$lib/server/auth';
 import { ConfigError, loadConfig } from '$lib/server/config';
 import { getDb } from '$lib/server/db';
@@ -33,6 +35,7 @@ export const init: ServerInit = async () => {
 			console.log('Seeded the demo scenario.');
 		}
 		const jobs = startSchedules();
+		publishFastApi();
 		// adapter-node emits this once the HTTP server has closed (SIGTERM, SIGINT): the jobs'
 		// timers and a PostgreSQL pool's idle connections would otherwise keep the process alive.
 		process.once('sveltekit:shutdown', () => {
@@ -51,8 +54,6 @@ export const init: ServerInit = async () => {
 	}
 };
 
-const RETRY_AFTER_SECONDS = 2;
-
 /**
  * Outermost: security headers on every answer (Auth.js's own included), no-store for the API and
  * for anything served to a signed-in person, and 503 with Retry-After when the database was busy.
@@ -61,32 +62,23 @@ const responseRules: Handle = async ({ event, resolve }) => {
 	let response = await resolve(event);
 	const isApi = isApiPath(event.url.pathname);
 	if (event.locals.databaseBusy) {
-		const message = 'The database is busy. Try again in a moment.';
+		const busy = busyAnswer();
 		response = isApi
-			? apiError(503, 'unavailable', message)
-			: new Response(`<!doctype html><meta charset="utf-8"><title>Busy · Patchwright</title><p>${message}</p>`, {
+			? toResponse(busy)
+			: new Response(`<!doctype html><meta charset="utf-8"><title>Busy · Patchwright</title><p>${BUSY_MESSAGE}</p>`, {
 					status: 503,
-					headers: { 'Content-Type': 'text/html; charset=utf-8' }
+					headers: { 'Content-Type': 'text/html; charset=utf-8', ...busy.headers }
 				});
-		response.headers.set('Retry-After', String(RETRY_AFTER_SECONDS));
 	}
 	try {
-		setHeaders(response.headers, event.locals.user !== null || isApi || event.url.pathname.startsWith('/auth/'));
+		setSecurityHeaders(response.headers, event.locals.user !== null || isApi || event.url.pathname.startsWith('/auth/'));
 	} catch {
 		// Some responses (Response.redirect) have immutable headers: copy them into one that can change.
 		response = new Response(response.body, response);
-		setHeaders(response.headers, true);
+		setSecurityHeaders(response.headers, true);
 	}
 	return response;
 };
-
-/** Everything the pages need ships with the app; nothing loads from another origin. */
-function setHeaders(headers: Headers, private_: boolean) {
-	headers.set('X-Content-Type-Options', 'nosniff');
-	headers.set('Referrer-Policy', 'same-origin');
-	headers.set('X-Frame-Options', 'DENY');
-	if (private_) headers.set('Cache-Control', 'no-store');
-}
 
 /**
  * Who is asking, cheaply: only a request with a session cookie costs anything, and then one
@@ -120,7 +112,7 @@ export const handleError: HandleServerError = ({ error, event, status, message }
 	if (status === 404) return { message: 'Not found' };
 	if (isDatabaseBusy(error)) {
 		event.locals.databaseBusy = true;
-		return { message: 'The database is busy. Try again in a moment.' };
+		return { message: BUSY_MESSAGE };
 	}
 	const id = crypto.randomUUID().slice(0, 8);
 	console.error(`[error ${id}] ${event.request.method} ${event.url.pathname}`, error);

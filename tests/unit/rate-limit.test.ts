@@ -6,7 +6,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { clear, hit, refuseIfLimited, resetAll, sweepEndedWindows, useLimitStore } from '$lib/server/rate-limit';
 import { createSharedTestDbs, destroyAll, testEngine } from '../helpers/db';
 
-describe('rate limiter (rate-limiter-flexible on a SQLite table)', () => {
+describe('rate limiter (one upsert on a SQLite table of its own file)', () => {
 	beforeEach(() => {
 		useLimitStore(new Database(':memory:'));
 		resetAll();
@@ -37,7 +37,7 @@ describe('rate limiter (rate-limiter-flexible on a SQLite table)', () => {
 		const other = new Database(file);
 		useLimitStore(other);
 		expect((await hit('sign-in-email', 'a@example.test', 2, 60_000)).ok).toBe(false);
-		expect(other.prepare('select count(*) as n from rate_limit').get()).toEqual({ n: 1 });
+		expect(other.prepare('select count(*) as n from rate_limit_count').get()).toEqual({ n: 1 });
 	});
 
 	it('holds no per-key state in process memory: every distinct key is a row in the table, at a flat cost per hit', async () => {
@@ -46,8 +46,19 @@ describe('rate limiter (rate-limiter-flexible on a SQLite table)', () => {
 		const started = performance.now();
 		for (let i = 0; i < 5_000; i++) await hit('calc-api', `10.0.${i >> 8}.${i & 255}`, 5, 60_000);
 		const perHitMs = (performance.now() - started) / 5_000;
-		expect(store.prepare('select count(*) as n from rate_limit').get()).toEqual({ n: 5_000 });
+		expect(store.prepare('select count(*) as n from rate_limit_count').get()).toEqual({ n: 5_000 });
 		expect(perHitMs).toBeLessThan(2);
+	});
+
+	it('sweeps ended windows, and a hit after the end starts a new window', async () => {
+		const store = new Database(':memory:');
+		useLimitStore(store);
+		await hit('b', 'k', 1, 1_000);
+		expect((await hit('b', 'k', 1, 1_000)).ok).toBe(false);
+		expect(await sweepEndedWindows(Date.now())).toBe(0);
+		expect(await sweepEndedWindows(Date.now() + 2_000)).toBe(1);
+		expect(store.prepare('select count(*) as n from rate_limit_count').get()).toEqual({ n: 0 });
+		expect((await hit('b', 'k', 1, 1_000)).ok).toBe(true);
 	});
 
 	it('answers an API refusal as 429 with Retry-After and the API error shape', async () => {

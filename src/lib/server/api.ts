@@ -64,57 +64,88 @@ function defaultMessage(status: number): string {
 	return defaultMessages.get(status) ?? (status >= 500 ? 'Something went wrong on our side.' : 'The request is not valid.');
 }
 
-/** An error answer in the API's one shape. */
-export function apiError(
+/** An answer as plain data: what a route computes, before a transport writes it. */
+export interface Answer {
+	status: number;
+	body: unknown;
+	headers?: Record<string, string>;
+}
+
+/** An error answer in the API's one shape, as data. */
+export function errorAnswer(
 	status: number,
 	code: ApiErrorCode,
 	message: string,
 	fields?: Record<string, string>,
-	{ reason, extra, headers, id }: ApiErrorOptions = {}
-): Response {
+	{ reason, extra, id }: Omit<ApiErrorOptions, 'headers'> = {}
+): Answer {
 	const error: ApiErrorDetail = errorBody(code, message, fields).error;
 	if (reason) error.reason = reason;
 	if (id) error.id = id;
-	return json({ ...extra, error }, { status, headers });
+	return { status, body: { ...extra, error } };
 }
+
+/** The Response for an answer. */
+export const toResponse = ({ status, body, headers }: Answer): Response => json(body, { status, headers });
+
+/** An error answer in the API's one shape. */
+export function apiError(status: number, code: ApiErrorCode, message: string, fields?: Record<string, string>, options: ApiErrorOptions = {}): Response {
+	return json(errorAnswer(status, code, message, fields, options).body, { status, headers: options.headers });
+}
+
+/** Seconds a client is asked to wait when the database was busy. */
+export const BUSY_RETRY_AFTER_SECONDS = 2;
+export const BUSY_MESSAGE = 'The database is busy. Try again in a moment.';
+
+/** 503 with Retry-After: another process held the database's write lock too long. */
+export const busyAnswer = (): Answer => ({
+	...errorAnswer(503, 'unavailable', BUSY_MESSAGE),
+	headers: { 'Retry-After': String(BUSY_RETRY_AFTER_SECONDS) }
+});
 
 export const DEFAULT_MAX_BYTES = 64 * 1024;
 
 export type ReadResult<T> = { ok: true; data: T } | { ok: false; response: Response };
+export type TextRead = { ok: true; text: string } | { ok: false; answer: Answer };
 
-function isJsonType(contentType: string | null): boolean {
+export function isJsonType(contentType: string | null | undefined): boolean {
 	if (!contentType) return false;
 	const type = contentType.split(';')[0].trim().toLowerCase();
 	return type === 'application/json' || (type.startsWith('application/') && type.endsWith('+json'));
 }
 
-const tooLarge = (maxBytes: number) => apiError(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`);
+const tooLarge = (maxBytes: number) => errorAnswer(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`);
+
+/** A body whose declared length is over the cap is refused before a byte is read. */
+export function declaredTooLarge(contentLength: string | null | undefined, maxBytes: number): boolean {
+	const declared = Number(contentLength);
+	return contentLength != null && Number.isFinite(declared) && declared > maxBytes;
+}
 
 /**
- * Reads at most `maxBytes` of the body, stopping as soon as more arrive. Throws nothing:
- * a body over the cap (or over the server's own limit) is 413.
+ * Reads at most `maxBytes` of a body (a web stream or a Node request: both are async iterables
+ * of bytes), stopping as soon as more arrive. Throws nothing: a body over the cap (or over the
+ * server's own limit) is 413, bytes that are not UTF-8 are 400.
  */
-export async function readBodyText(request: Request, maxBytes = DEFAULT_MAX_BYTES): Promise<{ ok: true; text: string } | { ok: false; response: Response }> {
-	const declared = Number(request.headers.get('content-length'));
-	if (Number.isFinite(declared) && declared > maxBytes) return { ok: false, response: tooLarge(maxBytes) };
-	if (!request.body) return { ok: true, text: '' };
-	const reader = request.body.getReader();
+export async function readCapped(
+	contentLength: string | null | undefined,
+	body: AsyncIterable<Uint8Array> | null,
+	maxBytes = DEFAULT_MAX_BYTES
+): Promise<TextRead> {
+	if (declaredTooLarge(contentLength, maxBytes)) return { ok: false, answer: tooLarge(maxBytes) };
+	if (!body) return { ok: true, text: '' };
 	const chunks: Uint8Array[] = [];
 	let size = 0;
 	try {
-		for (;;) {
-			const { done, value } = await reader.read();
-			if (done) break;
-			size += value.byteLength;
-			if (size > maxBytes) {
-				await reader.cancel().catch(() => {});
-				return { ok: false, response: tooLarge(maxBytes) };
-			}
-			chunks.push(value);
+		for await (const chunk of body) {
+			size += chunk.byteLength;
+			// leaving the loop cancels the stream, so the rest is never read
+			if (size > maxBytes) return { ok: false, answer: tooLarge(maxBytes) };
+			chunks.push(chunk);
 		}
 	} catch (e) {
-		if ((e as { status?: number } | null)?.status === 413) return { ok: false, response: tooLarge(maxBytes) };
-		return { ok: false, response: apiError(400, 'bad_request', 'The request body could not be read.') };
+		if ((e as { status?: number } | null)?.status === 413) return { ok: false, answer: tooLarge(maxBytes) };
+		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body could not be read.') };
 	}
 	const bytes = new Uint8Array(size);
 	let at = 0;
@@ -125,16 +156,32 @@ export async function readBodyText(request: Request, maxBytes = DEFAULT_MAX_BYTE
 	try {
 		return { ok: true, text: new TextDecoder('utf-8', { fatal: true }).decode(bytes) };
 	} catch {
-		return { ok: false, response: apiError(400, 'bad_request', 'The request body is not valid UTF-8.') };
+		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body is not valid UTF-8.') };
 	}
+}
+
+/** 415 unless the content type is JSON; null when it is. */
+export const refuseNonJson = (contentType: string | null | undefined): Answer | null =>
+	isJsonType(contentType) ? null : errorAnswer(415, 'unsupported_media_type', defaultMessage(415));
+
+const asResponse = (read: TextRead): { ok: true; text: string } | { ok: false; response: Response } =>
+	read.ok ? read : { ok: false, response: toResponse(read.answer) };
+
+/** The text of a request's body, read under `readCapped`'s rules. */
+export async function readBodyText(request: Request, maxBytes = DEFAULT_MAX_BYTES): Promise<{ ok: true; text: string } | { ok: false; response: Response }> {
+	return asResponse(await readCapped(request.headers.get('content-length'), request.body, maxBytes));
+}
+
+/** The body text of a JSON request as an answer: 415 for another content type, 413 past `maxBytes`. */
+export async function readJsonAnswer(request: Request, maxBytes = DEFAULT_MAX_BYTES): Promise<TextRead> {
+	const refused = refuseNonJson(request.headers.get('content-type'));
+	if (refused) return { ok: false, answer: refused };
+	return readCapped(request.headers.get('content-length'), request.body, maxBytes);
 }
 
 /** The body text of a JSON request: 415 for another content type, 413 past `maxBytes`. */
 export async function readJsonText(request: Request, maxBytes = DEFAULT_MAX_BYTES): Promise<{ ok: true; text: string } | { ok: false; response: Response }> {
-	if (!isJsonType(request.headers.get('content-type'))) {
-		return { ok: false, response: apiError(415, 'unsupported_media_type', defaultMessage(415)) };
-	}
-	return readBodyText(request, maxBytes);
+	return asResponse(await readJsonAnswer(request, maxBytes));
 }
 
 /**

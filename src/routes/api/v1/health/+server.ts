@@ -1,9 +1,3 @@
-import { json } from '@sveltejs/kit';
-import { sql } from 'kysely';
-import { db } from '$lib/server/db';
-import type { RequestHandler } from './$types';
+import { health, kitRoute } from '$lib/server/api-routes';
 
-export const GET: RequestHandler = async () => {
-	await sql`select 1`.execute(db);
-	return json({ ok: true });
-};
+export const GET = kitRoute(health);

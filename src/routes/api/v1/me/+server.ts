@@ -1,6 +1,3 @@
-import { json } from '@sveltejs/kit';
-import { requireUser } from '$lib/server/authz';
-import type { RequestHandler } from './$types';
+import { kitRoute, me } from '$lib/server/api-routes';
 
-/** The signed-in person's identity: roles and companies, never secrets. */
-export const GET: RequestHandler = async (event) => json(requireUser(event));
+export const GET = kitRoute(me);

@@ -1,0 +1,138 @@
+import type { IncomingMessage, ServerResponse } from 'node:http';
+import { parse as parseCookies } from 'cookie';
+import { busyAnswer, DEFAULT_MAX_BYTES, errorAnswer, readCapped, refuseNonJson, type Answer } from './api';
+import { hotRoutes, type ApiCall, type ApiRoute } from './api-routes';
+import { authSecret } from './auth';
+import { isDatabaseBusy } from './db/errors';
+import { NO_STORE, SECURITY_HEADERS } from './security-headers';
+import { sessionIdFromCookie } from './session-cookie';
+import { identityForSession } from './sessions';
+
+/**
+ * The built server's front door for the hot JSON routes (`api-routes.ts`): it answers them from
+ * Node's own request and response objects, before adapter-node turns the request into a web
+ * `Request` and SvelteKit runs its hooks, which is most of the cost of a small JSON answer.
+ * Everything else, and anything here it does not fully recognise (another method, a path that
+ * needs decoding or normalising, a body without a declared length), goes on to SvelteKit
+ * untouched, so the answers are the same either way: same headers, same error shape, same limits.
+ *
+ * `publishFastApi` (called once the server has started) leaves it where the built entry point
+ * looks for it; `scripts/adapter-fast-front.js` adds that look-up to adapter-node's entry point.
+ */
+
+export const FAST_API_KEY = Symbol.for('patchwright.fast-api');
+
+export type Middleware = (req: IncomingMessage, res: ServerResponse, next: () => void) => void;
+
+interface Compiled {
+	route: ApiRoute;
+	/** Each path segment: a literal, or the name of a parameter. */
+	segments: { literal?: string; param?: string }[];
+}
+
+const compiled: Compiled[] = hotRoutes.map((route) => ({
+	route,
+	segments: route.id
+		.split('/')
+		.slice(1)
+		.map((part) => (part.startsWith('[') && part.endsWith(']') ? { param: part.slice(1, -1) } : { literal: part }))
+}));
+
+/** The route and its decoded parameters, or null when the path is not one of ours exactly. */
+export function matchRoute(method: string, pathname: string): { route: ApiRoute; params: Record<string, string> } | null {
+	const parts = pathname.split('/').slice(1);
+	for (const { route, segments } of compiled) {
+		if (route.method !== method || segments.length !== parts.length) continue;
+		const params: Record<string, string> = Object.create(null);
+		let ok = true;
+		for (let i = 0; i < segments.length && ok; i++) {
+			const segment = segments[i];
+			const part = parts[i];
+			if (segment.literal !== undefined) ok = part === segment.literal;
+			// anything encoded is left to SvelteKit, which decodes and normalises paths its own way
+			else ok = part !== '' && !part.includes('%');
+			if (ok && segment.param) params[segment.param] = part;
+		}
+		if (ok) return { route, params };
+	}
+	return null;
+}
+
+/** The client's address as adapter-node works it out (ADDRESS_HEADER, XFF_DEPTH); null to leave the request to it. */
+export function clientAddress(req: IncomingMessage, env: NodeJS.ProcessEnv = process.env): string | null {
+	const header = env.ADDRESS_HEADER?.toLowerCase();
+	if (!header) return req.socket.remoteAddress ?? null;
+	const value = req.headers[header];
+	if (typeof value !== 'string') return null;
+	if (header !== 'x-forwarded-for') return value;
+	const depth = Number.parseInt(env.XFF_DEPTH ?? '1', 10);
+	const addresses = value.split(',');
+	if (!(depth >= 1) || depth > addresses.length) return null;
+	return addresses[addresses.length - depth].trim();
+}
+
+function write(res: ServerResponse, { status, body, headers }: Answer): void {
+	const text = JSON.stringify(body);
+	res.statusCode = status;
+	res.setHeader('Content-Type', 'application/json');
+	res.setHeader('Content-Length', Buffer.byteLength(text));
+	for (const [name, value] of SECURITY_HEADERS) res.setHeader(name, value);
+	res.setHeader(...NO_STORE);
+	if (headers) for (const [name, value] of Object.entries(headers)) res.setHeader(name, value);
+	res.end(text);
+}
+
+function callOf(req: IncomingMessage, params: Record<string, string>, query: string, address: string): ApiCall {
+	return {
+		params,
+		query: new URLSearchParams(query),
+		clientAddress: address,
+		async jsonText() {
+			const refused = refuseNonJson(req.headers['content-type']);
+			if (refused) return { ok: false, answer: refused };
+			return readCapped(req.headers['content-length'], req, DEFAULT_MAX_BYTES);
+		},
+		async identity() {
+			const header = req.headers.cookie;
+			if (!header) return null;
+			const cookies = parseCookies(header);
+			const sessionId = await sessionIdFromCookie({ get: (name) => cookies[name] }, authSecret);
+			return sessionId ? identityForSession(sessionId) : null;
+		}
+	};
+}
+
+async function answerSafely(method: string, pathname: string, route: ApiRoute, call: ApiCall): Promise<Answer> {
+	try {
+		return await route.answer(call);
+	} catch (e) {
+		if (isDatabaseBusy(e)) return busyAnswer();
+		const id = crypto.randomUUID().slice(0, 8);
+		console.error(`[error ${id}] ${method} ${pathname}`, e);
+		return errorAnswer(500, 'internal', 'Something went wrong on our side.', undefined, { id });
+	}
+}
+
+export const fastApi: Middleware = (req, res, next) => {
+	const url = req.url ?? '';
+	const method = req.method ?? '';
+	if (!url.startsWith('/api/v1/') || (method !== 'GET' && method !== 'POST')) return next();
+	const q = url.indexOf('?');
+	const pathname = q === -1 ? url : url.slice(0, q);
+	const found = matchRoute(method, pathname);
+	if (!found) return next();
+	// a chunked body is SvelteKit's to read (its own body limit applies while streaming)
+	if (method === 'POST' && req.headers['content-length'] === undefined) return next();
+	const address = clientAddress(req);
+	if (address === null) return next();
+	const call = callOf(req, found.params, q === -1 ? '' : url.slice(q + 1), address);
+	answerSafely(method, pathname, found.route, call).then(
+		(answer) => write(res, answer),
+		() => res.destroy()
+	);
+};
+
+/** Makes the fast path available to the built entry point (see `scripts/adapter-fast-front.js`). */
+export function publishFastApi(): void {
+	(globalThis as Record<symbol, unknown>)[FAST_API_KEY] = fastApi;
+}

@@ -1,0 +1,178 @@
+import fs from 'node:fs';
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import Database from 'better-sqlite3';
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { clientAddress, fastApi, matchRoute } from '$lib/server/fast-api';
+import { getDb } from '$lib/server/db';
+import { migrateToLatest } from '$lib/server/db/migrate';
+import { useLimitStore } from '$lib/server/rate-limit';
+import { addFastFront, SERVER_LINE } from '../../scripts/adapter-fast-front.js';
+import { useTemporaryDataDir } from '../helpers/certificates';
+
+/**
+ * The built server's fast path for the hot JSON routes, over a real node:http server: what it
+ * answers must be what the SvelteKit routes answer (the access-table and end-to-end tests run
+ * against the built app, so they go through it too), and what it does not fully recognise
+ * must reach SvelteKit untouched (here: the fallback answers 299).
+ */
+
+let server: http.Server;
+let base: string;
+
+beforeAll(async () => {
+	useTemporaryDataDir();
+	process.env.AUTH_SECRET ??= 'a test secret that is long enough to derive keys from';
+	await migrateToLatest(getDb());
+	server = http.createServer((req, res) =>
+		fastApi(req, res, () => {
+			res.statusCode = 299;
+			res.end('fell through');
+		})
+	);
+	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+	base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+});
+afterAll(() => new Promise<void>((resolve) => server.close(() => resolve())));
+beforeEach(() => useLimitStore(new Database(':memory:')));
+
+/** A raw request, so a test decides exactly which headers go (fetch adds its own). */
+function send(method: string, path: string, headers: Record<string, string> = {}, body?: Buffer | string): Promise<{ status: number; headers: http.IncomingHttpHeaders; text: string }> {
+	return new Promise((resolve, reject) => {
+		const req = http.request(`${base}${path}`, { method, headers }, (res) => {
+			const chunks: Buffer[] = [];
+			res.on('data', (c) => chunks.push(c));
+			res.on('end', () => resolve({ status: res.statusCode!, headers: res.headers, text: Buffer.concat(chunks).toString('utf8') }));
+		});
+		req.on('error', reject);
+		req.end(body);
+	});
+}
+
+const json = (body: unknown) => {
+	const text = JSON.stringify(body);
+	return { headers: { 'Content-Type': 'application/json', 'Content-Length': String(Buffer.byteLength(text)) }, text };
+};
+
+describe('the fast JSON path', () => {
+	it('answers health with the headers every API answer carries', async () => {
+		const res = await send('GET', '/api/v1/health');
+		expect(res.status).toBe(200);
+		expect(JSON.parse(res.text)).toEqual({ ok: true });
+		expect(res.headers['content-type']).toBe('application/json');
+		expect(res.headers['cache-control']).toBe('no-store');
+		expect(res.headers['x-content-type-options']).toBe('nosniff');
+		expect(res.headers['x-frame-options']).toBe('DENY');
+		expect(res.headers['referrer-policy']).toBe('same-origin');
+	});
+
+	it('runs a calculation, and refuses bodies under the API contract (415, 413, 400) in its error shape', async () => {
+		const body = json({ inputs: { diameterMm: 225, lengthMm: 600, thicknessMm: 6 } });
+		const ok = await send('POST', '/api/v1/calculations/laminate-volume', body.headers, body.text);
+		expect(ok.status).toBe(200);
+		expect(JSON.parse(ok.text)).toHaveProperty('result');
+
+		const wrongType = await send('POST', '/api/v1/calculations/laminate-volume', { 'Content-Type': 'text/plain', 'Content-Length': String(body.text.length) }, body.text);
+		expect(wrongType.status).toBe(415);
+		expect(JSON.parse(wrongType.text).error.code).toBe('unsupported_media_type');
+
+		const big = Buffer.alloc(70 * 1024, 0x20);
+		const tooLarge = await send('POST', '/api/v1/calculations/laminate-volume', { 'Content-Type': 'application/json', 'Content-Length': String(big.length) }, big);
+		expect(tooLarge.status).toBe(413);
+		expect(JSON.parse(tooLarge.text).error.code).toBe('payload_too_large');
+
+		const notUtf8 = Buffer.from([0x7b, 0xff, 0xfe, 0x7d]);
+		const bad = await send('POST', '/api/v1/calculations/laminate-volume', { 'Content-Type': 'application/json', 'Content-Length': '4' }, notUtf8);
+		expect(bad.status).toBe(400);
+		expect(JSON.parse(bad.text).error.message).toMatch(/UTF-8/);
+
+		const proto = json({ inputs: { __proto__: 1, constructor: 2 } });
+		const hostile = await send('POST', '/api/v1/calculations/laminate-volume', proto.headers, proto.text);
+		expect(hostile.status).toBe(400);
+		expect(JSON.parse(hostile.text).error.code).toBe('bad_request');
+
+		const unknown = await send('POST', '/api/v1/calculations/__proto__', body.headers, body.text);
+		expect(unknown.status).toBe(404);
+		expect(JSON.parse(unknown.text).error.code).toBe('not_found');
+	});
+
+	it('counts every call against the same per-address limit as the routes, answering 429 with Retry-After', async () => {
+		let last = await send('GET', '/api/v1/practice/mix-ratio?seed=7');
+		expect(last.status).toBe(200);
+		expect(JSON.parse(last.text)).not.toHaveProperty('answer');
+		for (let i = 0; i < 300 && last.status === 200; i++) last = await send('GET', '/api/v1/practice/mix-ratio?seed=7');
+		expect(last.status).toBe(429);
+		expect(Number(last.headers['retry-after'])).toBeGreaterThan(0);
+		expect(JSON.parse(last.text).error.code).toBe('rate_limited');
+	});
+
+	it('answers an unknown and a malformed certificate number alike, and "who am I" with 401 for nobody', async () => {
+		const unknown = await send('GET', '/api/v1/certificates/7ZZZ-ZZZZ-ZZZZ-ZZZZ');
+		const malformed = await send('GET', '/api/v1/certificates/not-a-number');
+		expect(unknown.status).toBe(404);
+		expect(unknown.text).toBe(malformed.text);
+		expect(JSON.parse(unknown.text)).toEqual({ error: { code: 'not_found', message: 'No certificate has this number.' } });
+
+		for (const cookie of [undefined, 'authjs.session-token=forged', '__proto__=x; constructor=y']) {
+			const res = await send('GET', '/api/v1/me', cookie ? { Cookie: cookie } : {});
+			expect(res.status).toBe(401);
+			expect(JSON.parse(res.text)).toEqual({ error: { code: 'unauthorized', message: 'Sign in first.' } });
+		}
+	});
+
+	it('leaves SvelteKit everything it does not fully recognise', async () => {
+		for (const [method, path] of [
+			['HEAD', '/api/v1/health'],
+			['OPTIONS', '/api/v1/health'],
+			['POST', '/api/v1/health'],
+			['GET', '/api/v1/health/'],
+			['GET', '/api/v1//health'],
+			['GET', '/api/v1/%68ealth'],
+			['GET', '/api/v1/certificates/7ZZZ%2DZZZZ'],
+			['GET', '/api/v1/attempts/1'],
+			['GET', '/courses']
+		]) {
+			expect((await send(method, path)).status, `${method} ${path}`).toBe(299);
+		}
+		// a body without a declared length (chunked) is read by SvelteKit, under its own body limit
+		const chunked = await send('POST', '/api/v1/calculations/laminate-volume', { 'Content-Type': 'application/json', 'Transfer-Encoding': 'chunked' }, '{}');
+		expect(chunked.status).toBe(299);
+	});
+
+	it('matches only its own routes, exactly, with the parameters named as in the route files', () => {
+		expect(matchRoute('GET', '/api/v1/certificates/ABCD-EFGH')).toMatchObject({ params: { number: 'ABCD-EFGH' } });
+		expect(matchRoute('POST', '/api/v1/calculations/mix-ratio')).toMatchObject({ params: { id: 'mix-ratio' } });
+		expect(matchRoute('GET', '/api/v1/calculations/mix-ratio')).toBeNull();
+		expect(matchRoute('GET', '/api/v1/practice/mix-ratio/check')).toBeNull();
+		for (const route of ['/api/v1/health', '/api/v1/calculations/[id]', '/api/v1/practice/[generator]', '/api/v1/certificates/[number]', '/api/v1/me']) {
+			// each route the fast path serves is also a SvelteKit route file, used by `vite dev` and as the fallback
+			expect(fs.existsSync(`src/routes${route}/+server.ts`), route).toBe(true);
+		}
+	});
+
+	it('works out the client address as adapter-node does (ADDRESS_HEADER, XFF_DEPTH), or leaves the request to it', () => {
+		const req = (headers: http.IncomingHttpHeaders) => ({ headers, socket: { remoteAddress: '10.0.0.9' } }) as unknown as http.IncomingMessage;
+		expect(clientAddress(req({}), {})).toBe('10.0.0.9');
+		const xff = { ADDRESS_HEADER: 'X-Forwarded-For', XFF_DEPTH: '1' };
+		expect(clientAddress(req({ 'x-forwarded-for': '203.0.113.5, 198.51.100.7' }), xff)).toBe('198.51.100.7');
+		expect(clientAddress(req({ 'x-forwarded-for': '203.0.113.5, 198.51.100.7' }), { ...xff, XFF_DEPTH: '2' })).toBe('203.0.113.5');
+		expect(clientAddress(req({ 'x-forwarded-for': '203.0.113.5' }), { ...xff, XFF_DEPTH: '3' })).toBeNull();
+		expect(clientAddress(req({}), xff)).toBeNull();
+		expect(clientAddress(req({ 'x-real-ip': '192.0.2.4' }), { ADDRESS_HEADER: 'X-Real-IP' })).toBe('192.0.2.4');
+	});
+});
+
+describe("the fast front in adapter-node's entry point", () => {
+	it("is added to the entry point adapter-node ships, before adapter-node's own handler", () => {
+		const shipped = fs.readFileSync('node_modules/@sveltejs/adapter-node/files/index.js', 'utf8');
+		expect(shipped).toContain(SERVER_LINE);
+		const patched = addFastFront(shipped);
+		expect(patched).toContain('polka({ server: httpServer }).use(fast_front, handler)');
+		expect(patched.indexOf('const fast_front')).toBeLessThan(patched.indexOf('use(fast_front'));
+		expect(addFastFront(patched)).toBe(patched);
+	});
+
+	it('stops the build when adapter-node writes its entry point another way', () => {
+		expect(() => addFastFront('const server = http.createServer(handler);')).toThrow(/not found/);
+	});
+});
