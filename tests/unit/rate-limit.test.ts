@@ -3,7 +3,7 @@ import os from 'node:os';
 import path from 'node:path';
 import Database from 'better-sqlite3';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { clear, hit, refuseIfLimited, resetAll, sweepEndedWindows, useLimitStore } from '$lib/server/rate-limit';
+import { clear, hit, refuseIfLimited, reservingCounter, resetAll, sweepEndedWindows, useLimitStore } from '$lib/server/rate-limit';
 import { createSharedTestDbs, destroyAll, testEngine } from '../helpers/db';
 
 describe('rate limiter (one upsert on a SQLite table of its own file)', () => {
@@ -61,6 +61,46 @@ describe('rate limiter (one upsert on a SQLite table of its own file)', () => {
 		expect((await hit('b', 'k', 1, 1_000)).ok).toBe(true);
 	});
 
+	it('reserving counters (one per process) admit the limit between them and no more, writing once per block', async () => {
+		const store = new Database(':memory:');
+		useLimitStore(store);
+		const processes = [reservingCounter(), reservingCounter()];
+		const verdicts = [];
+		for (let i = 0; i < 300; i++) verdicts.push(await processes[i % 2].hit('calc-api', '192.0.2.7', 100, 60_000));
+		const admitted = verdicts.filter((v) => v.ok).length;
+		// a block is limit / 20 = 5; with two processes at most one block may be stranded
+		expect(admitted).toBeLessThanOrEqual(100);
+		expect(admitted).toBeGreaterThanOrEqual(95);
+		expect(verdicts.slice(admitted).every((v) => !v.ok && v.retryAfterSeconds > 55)).toBe(true);
+		const quiet = reservingCounter();
+		for (let i = 0; i < 10; i++) await quiet.hit('calc-api', '198.51.100.1', 100, 60_000);
+		// ten requests took two blocks of five from the shared count: two writes, not ten
+		expect(store.prepare("select points from rate_limit_count where key = 'calc-api:198.51.100.1'").get()).toEqual({ points: 10 });
+	});
+
+	it('a reserving counter is given only what the shared count has left, and remembers a refusal', async () => {
+		const store = new Database(':memory:');
+		useLimitStore(store);
+		for (let i = 0; i < 98; i++) await hit('calc-api', 'k', 100, 60_000);
+		const counter = reservingCounter();
+		expect((await counter.hit('calc-api', 'k', 100, 60_000)).ok).toBe(true);
+		expect((await counter.hit('calc-api', 'k', 100, 60_000)).ok).toBe(true);
+		expect((await counter.hit('calc-api', 'k', 100, 60_000)).ok).toBe(false);
+		const before = store.prepare("select points from rate_limit_count where key = 'calc-api:k'").get();
+		expect((await counter.hit('calc-api', 'k', 100, 60_000)).ok).toBe(false);
+		// the remembered refusal costs no write
+		expect(store.prepare("select points from rate_limit_count where key = 'calc-api:k'").get()).toEqual(before);
+	});
+
+	it('a reserving counter keeps a bounded number of keys, and a dropped key only takes a fresh block', async () => {
+		const store = new Database(':memory:');
+		useLimitStore(store);
+		const counter = reservingCounter(3);
+		for (let round = 0; round < 2; round++) for (let k = 0; k < 5; k++) expect((await counter.hit('b', `k${k}`, 40, 60_000)).ok).toBe(true);
+		// every key's reservation was dropped before its second hit, so each took two blocks of two
+		expect(store.prepare('select sum(points) as n from rate_limit_count').get()).toEqual({ n: 20 });
+	});
+
 	it('answers an API refusal as 429 with Retry-After and the API error shape', async () => {
 		const event = { getClientAddress: () => '192.0.2.1' };
 		const limit = { bucket: 'calc-api', limit: 1, windowMs: 60_000 };
@@ -114,5 +154,17 @@ describe(`rate limits in the main database (${testEngine}), as with DATABASE_URL
 		expect(verdicts.filter((v) => v.ok)).toHaveLength(7);
 		const row = await dbs[1].selectFrom('rate_limit_count').select('points').where('key', '=', 'sign-in-email:a@example.test').executeTakeFirstOrThrow();
 		expect(Number(row.points)).toBe(20);
+	});
+	it('reserving counters on the main database admit the limit between them, also when they race', async () => {
+		const processes = [reservingCounter(), reservingCounter()];
+		const verdicts = await Promise.all(
+			Array.from({ length: 150 }, (_, i) => {
+				useLimitStore(dbs[i % 2]);
+				return processes[i % 2].hit('calc-api', '192.0.2.9', 100, 60_000);
+			})
+		);
+		const admitted = verdicts.filter((v) => v.ok).length;
+		expect(admitted).toBeLessThanOrEqual(100);
+		expect(admitted).toBeGreaterThanOrEqual(90);
 	});
 });

@@ -3,12 +3,12 @@ import { courses, getCourse, type Course } from '$lib/content';
 import { recordAudit } from './audit';
 import { config } from './config';
 import { signCredential } from './credential';
-import { db as defaultDb, inTransaction, type DB } from './db';
+import { db as defaultDb, getDb, inTransaction, type DB } from './db';
 import { isDatabaseBusy, isUniqueViolation } from './db/errors';
 import type { CertificateTable } from './db/schema';
 import { openRenewalOf } from './renewal-open';
 import { signedOffSkills } from './sign-offs';
-import { containsText } from './db/engine';
+import { containsText, reusableQuery } from './db/engine';
 
 /**
  * Certificates: issued the moment the last requirement is met, revoked with a reason,
@@ -440,12 +440,15 @@ function publicQuery(db: DB) {
 }
 
 /** Looks a number up as typed (forgiving form). Null when it is malformed or unknown. */
-export async function findCertificate(input: string, { db = defaultDb, now = new Date() }: Options = {}): Promise<PublicCertificate | null> {
+export async function findCertificate(input: string, { db = getDb(), now = new Date() }: Options = {}): Promise<PublicCertificate | null> {
 	const parsed = parseNumber(input);
 	if (!parsed.ok) return null;
-	const row = await publicQuery(db).where('certificate.number', '=', parsed.formatted).executeTakeFirst();
+	const [row] = await byNumber(db, [parsed.formatted]);
 	return row ? publicView(row, now) : null;
 }
+
+/** The public API's look-up by number, built once (the verification API's hottest query). */
+const byNumber = reusableQuery((db) => publicQuery(db).where('certificate.number', '=', 'stand-in'));
 
 export interface CrewRow {
 	input: string;

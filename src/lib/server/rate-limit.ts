@@ -7,8 +7,10 @@ import { ensureWritableDir } from './db/engine';
 
 /**
  * Fixed-window rate limits, counted per bucket ("sign-in-ip", "calc-api", ...) and key (an
- * address or a client address), never in process memory, so every process behind a load
- * balancer enforces one limit. A hit is one upsert (a new window starts at 1 when the key has
+ * address or a client address) in a table, so every process behind a load balancer enforces
+ * one limit and a restart forgets nothing (the public APIs take their points in blocks, see
+ * `reservingCounter`; what a process holds in memory is bounded and never more than the table
+ * granted). A hit is one upsert (a new window starts at 1 when the key has
  * none or its window ended, otherwise the count goes up by one), the same statement as
  * rate-limiter-flexible's SQL stores use, on a table `rate_limit_count (key, points, expire_ms)`:
  *
@@ -25,7 +27,7 @@ import { ensureWritableDir } from './db/engine';
 
 interface SqliteStore {
 	kind: 'sqlite';
-	hit: Database.Statement<[string, number, number, number], { points: number; expire_ms: number }>;
+	take: Database.Statement<[string, number, number, number, number, number], { points: number; expire_ms: number }>;
 	clear: Database.Statement<[string]>;
 	sweep: Database.Statement<[number]>;
 }
@@ -39,10 +41,10 @@ function sqliteStore(sqlite: Database.Database): SqliteStore {
 	sqlite.exec('drop table if exists rate_limit');
 	return {
 		kind: 'sqlite',
-		hit: sqlite.prepare(
-			`insert into rate_limit_count (key, points, expire_ms) values (?, 1, ?)
+		take: sqlite.prepare(
+			`insert into rate_limit_count (key, points, expire_ms) values (?, ?, ?)
 			 on conflict (key) do update set
-			   points = case when rate_limit_count.expire_ms <= ? then 1 else rate_limit_count.points + 1 end,
+			   points = case when rate_limit_count.expire_ms <= ? then excluded.points else rate_limit_count.points + ? end,
 			   expire_ms = case when rate_limit_count.expire_ms <= ? then excluded.expire_ms else rate_limit_count.expire_ms end
 			 returning points, expire_ms`
 		),
@@ -72,6 +74,7 @@ function limitStore(): Store {
  * migrated app database (its `rate_limit_count` table, as on PostgreSQL).
  */
 export function useLimitStore(database: Database.Database | DB): void {
+	apiCounter.reset();
 	store = database instanceof Database ? sqliteStore(database) : { kind: 'database', db: database };
 }
 
@@ -88,25 +91,37 @@ export interface RateLimitResult {
 /** When a window that starts now ends: whole seconds, as the limits are stated. */
 const windowEnd = (now: number, windowMs: number) => now + Math.max(1, Math.ceil(windowMs / 1000)) * 1000;
 
+interface Taken {
+	/** Points used in the key's window, these included. */
+	points: number;
+	expireMs: number;
+}
+
 /**
- * One hit on the database table: a new window starts with 1 when the key has none or its window
- * ended; otherwise the count goes up by one. One statement, so concurrent hits from any number
- * of processes each count exactly once.
+ * Takes `n` points from a key's count: a new window starts at `n` when the key has none or its
+ * window ended; otherwise the count goes up by `n`. One statement, so concurrent hits from any
+ * number of processes each count exactly once.
  */
-async function hitTable(db: DB, bucket: string, key: string, limit: number, windowMs: number): Promise<RateLimitResult> {
-	const now = Date.now();
-	const row = await db
+async function take(bucket: string, key: string, n: number, windowMs: number, now: number): Promise<Taken> {
+	const s = limitStore();
+	const id = `${bucket}:${key}`;
+	const end = windowEnd(now, windowMs);
+	if (s.kind === 'sqlite') {
+		const row = s.take.get(id, n, end, now, n, now)!;
+		return { points: row.points, expireMs: row.expire_ms };
+	}
+	const row = await s.db
 		.insertInto('rate_limit_count')
-		.values({ key: `${bucket}:${key}`, points: 1, expire_ms: windowEnd(now, windowMs) })
+		.values({ key: id, points: n, expire_ms: end })
 		.onConflict((oc) =>
 			oc.column('key').doUpdateSet({
-				points: sql<number>`case when rate_limit_count.expire_ms <= ${now} then 1 else rate_limit_count.points + 1 end`,
+				points: sql<number>`case when rate_limit_count.expire_ms <= ${now} then excluded.points else rate_limit_count.points + ${n} end`,
 				expire_ms: sql<number>`case when rate_limit_count.expire_ms <= ${now} then excluded.expire_ms else rate_limit_count.expire_ms end`
 			})
 		)
 		.returning(['points', 'expire_ms'])
 		.executeTakeFirstOrThrow();
-	return verdict(Number(row.points), Number(row.expire_ms), limit, now);
+	return { points: Number(row.points), expireMs: Number(row.expire_ms) };
 }
 
 /** Removes windows that ended before `now` (the schedule runs it; a hit restarts an ended window anyway). */
@@ -117,22 +132,88 @@ export async function sweepEndedWindows(now = Date.now()): Promise<number> {
 	return Number(result.numDeletedRows);
 }
 
-function verdict(points: number, expireMs: number, limit: number, now: number): RateLimitResult {
-	if (points <= limit) return { ok: true, retryAfterSeconds: 0 };
-	return { ok: false, retryAfterSeconds: Math.max(1, Math.ceil((expireMs - now) / 1000)) };
-}
+const refusal = (expireMs: number, now: number): RateLimitResult => ({ ok: false, retryAfterSeconds: Math.max(1, Math.ceil((expireMs - now) / 1000)) });
+const ALLOWED: RateLimitResult = { ok: true, retryAfterSeconds: 0 };
 
 /** Counts one attempt; `ok` is false once `limit` attempts were made within `windowMs`. */
 export async function hit(bucket: string, key: string, limit: number, windowMs: number): Promise<RateLimitResult> {
-	const s = limitStore();
-	if (s.kind === 'database') return hitTable(s.db, bucket, key, limit, windowMs);
 	const now = Date.now();
-	const row = s.hit.get(`${bucket}:${key}`, windowEnd(now, windowMs), now, now)!;
-	return verdict(row.points, row.expire_ms, limit, now);
+	const taken = await take(bucket, key, 1, windowMs, now);
+	return taken.points <= limit ? ALLOWED : refusal(taken.expireMs, now);
 }
+
+/** Points a process took from the shared count ahead of use, for one bucket and key. */
+interface Reservation {
+	/** Points taken and not yet used. */
+	left: number;
+	/** The end of the shared window the points belong to. */
+	expireMs: number;
+	/** The shared count had nothing left: refused until `expireMs`. */
+	refused: boolean;
+}
+
+const MAX_RESERVATIONS = 10_000;
+/** A process takes a twentieth of a limit at a time (one point for limits under 20). */
+const BLOCKS_PER_LIMIT = 20;
+
+export type Counter = (bucket: string, key: string, limit: number, windowMs: number) => Promise<RateLimitResult>;
+
+/**
+ * A counter for the public APIs, where every request is counted: like `hit`, but it takes
+ * points from the shared count in blocks of limit / 20 and spends them in this process, so a
+ * busy client costs one write per block instead of one per request. The limit still holds
+ * across processes: no process is given more than the shared count has left, so all of them
+ * together admit at most `limit` in a window. Points a process took and did not use count as
+ * used, so with P processes a client may be refused up to (P - 1) blocks early (5 % of the
+ * limit each). A refusal is remembered until the window ends, which is exact for a fixed window.
+ * Memory is bounded: past `maxKeys` the oldest reservation is dropped, leaving its points unused.
+ */
+export function reservingCounter(maxKeys = MAX_RESERVATIONS): { hit: Counter; forget(bucket: string, key: string): void; reset(): void } {
+	const reservations = new Map<string, Reservation>();
+	// one refill per key at a time: requests arriving meanwhile wait for it and share its points
+	const refills = new Map<string, Promise<void>>();
+	const refill = async (id: string, bucket: string, key: string, limit: number, windowMs: number) => {
+		const block = Math.max(1, Math.floor(limit / BLOCKS_PER_LIMIT));
+		const taken = await take(bucket, key, block, windowMs, Date.now());
+		const granted = Math.max(0, Math.min(block, limit - (taken.points - block)));
+		reservations.delete(id);
+		if (reservations.size >= maxKeys) reservations.delete(reservations.keys().next().value!);
+		reservations.set(id, { left: granted, expireMs: taken.expireMs, refused: granted === 0 });
+	};
+	return {
+		async hit(bucket, key, limit, windowMs) {
+			const id = `${bucket}:${key}`;
+			for (;;) {
+				const now = Date.now();
+				const held = reservations.get(id);
+				if (held && held.expireMs > now) {
+					if (held.left > 0) {
+						held.left--;
+						return ALLOWED;
+					}
+					if (held.refused) return refusal(held.expireMs, now);
+				}
+				let pending = refills.get(id);
+				if (!pending) {
+					pending = refill(id, bucket, key, limit, windowMs).finally(() => refills.delete(id));
+					refills.set(id, pending);
+				}
+				await pending;
+			}
+		},
+		forget: (bucket, key) => void reservations.delete(`${bucket}:${key}`),
+		reset: () => reservations.clear()
+	};
+}
+
+const apiCounter = reservingCounter();
+
+/** This process's reserving counter (see `reservingCounter`), for the public APIs' limits. */
+export const hitReserving: Counter = apiCounter.hit;
 
 /** Forgets one key's attempts in a bucket, for example after a successful sign-in. */
 export async function clear(bucket: string, key: string): Promise<void> {
+	apiCounter.forget(bucket, key);
 	const s = limitStore();
 	if (s.kind === 'database') await s.db.deleteFrom('rate_limit_count').where('key', '=', `${bucket}:${key}`).execute();
 	else s.clear.run(`${bucket}:${key}`);
@@ -154,7 +235,7 @@ export interface ApiLimit {
  * Retry-After once the window is used up; null while the request may go ahead.
  */
 export async function limitAnswer(clientAddress: string, { bucket, limit, windowMs }: ApiLimit): Promise<Answer | null> {
-	const verdict = await hit(bucket, clientAddress, scaledLimit(limit), windowMs);
+	const verdict = await hitReserving(bucket, clientAddress, scaledLimit(limit), windowMs);
 	if (verdict.ok) return null;
 	return {
 		...errorAnswer(429, 'rate_limited', `Too many requests from this address. Try again in ${verdict.retryAfterSeconds} s.`),

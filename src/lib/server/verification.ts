@@ -3,9 +3,9 @@ import { parseNumber } from '$lib/certificates/number';
 import { checkNumbers, CREW_CHECK_LIMIT, findCertificate, type CrewRow, type PublicCertificate } from './certificates';
 import { checkUploadedPdf } from './certificate-documents';
 import { verifyCredentialJwt } from './credential';
-import { db as defaultDb, type DB } from './db';
+import { db as defaultDb, getDb, type DB } from './db';
 import { config } from './config';
-import { hit, scaledLimit } from './rate-limit';
+import { hitReserving, scaledLimit } from './rate-limit';
 
 /**
  * Public verification: the same answers for the pages and the JSON API. Lookups are limited
@@ -18,12 +18,12 @@ const LOOKUP_BUCKET = 'certificate-lookup';
 export async function chargeLookups(address: string, count = 1): Promise<number> {
 	const limit = scaledLimit(config.certificateLookupsPerMinute);
 	let verdict = { ok: true, retryAfterSeconds: 0 };
-	for (let i = 0; i < Math.max(1, count) && verdict.ok; i++) verdict = await hit(LOOKUP_BUCKET, address, limit, 60_000);
+	for (let i = 0; i < Math.max(1, count) && verdict.ok; i++) verdict = await hitReserving(LOOKUP_BUCKET, address, limit, 60_000);
 	return verdict.ok ? 0 : verdict.retryAfterSeconds;
 }
 
 /** What the API answers for one number: `null` for not found (malformed or unknown alike). */
-export async function lookUp(input: string, { db = defaultDb, now = new Date() }: { db?: DB; now?: Date } = {}): Promise<PublicCertificate | null> {
+export async function lookUp(input: string, { db = getDb(), now = new Date() }: { db?: DB; now?: Date } = {}): Promise<PublicCertificate | null> {
 	const parsed = parseNumber(input.slice(0, 64));
 	// a malformed number still costs one lookup, so timing does not tell it from an unknown one
 	return findCertificate(parsed.ok ? parsed.formatted : '0000-0000-0000-0000', { db, now });

@@ -84,7 +84,29 @@ export function openDatabase(file: string, busyTimeoutMs = 100): Kysely<Schema> 
 	sqlite.pragma('synchronous = NORMAL');
 	const db = new Kysely<Schema>({ dialect: immediateDialect(sqlite) });
 	handles.set(db, sqlite);
+	if (file !== ':memory:' && file !== '') readerFiles.set(db, { file, busyTimeoutMs });
 	return db;
+}
+
+const readerFiles = new WeakMap<Kysely<Schema>, { file: string; busyTimeoutMs: number }>();
+const readers = new WeakMap<Kysely<Schema>, Database.Database>();
+
+/**
+ * A second, read-only connection to a SQLite file, for prepared statements on hot read paths.
+ * Statements on the app's own connection would run inside whatever transaction another request
+ * has open on it (and so could see rows it later rolls back); with WAL this connection sees
+ * only committed data and never waits for writers. Null for PostgreSQL and in-memory files.
+ */
+export function sqliteReader(db: Kysely<Schema>): Database.Database | null {
+	let reader = readers.get(db);
+	if (!reader) {
+		const at = readerFiles.get(db);
+		if (!at) return null;
+		reader = new Database(at.file, { readonly: true, fileMustExist: true });
+		reader.pragma(`busy_timeout = ${Math.max(0, Math.floor(at.busyTimeoutMs))}`);
+		readers.set(db, reader);
+	}
+	return reader;
 }
 
 /**
@@ -134,6 +156,33 @@ export function openConfigured(settings: DatabaseSettings): Kysely<Schema> {
 /** The driver handle behind a SQLite database opened here, for prepared statements on hot paths; null for PostgreSQL. */
 export function sqliteHandle(db: Kysely<Schema>): Database.Database | null {
 	return handles.get(db) ?? null;
+}
+
+/**
+ * A query that is built once and run many times with other parameters, for the hottest
+ * look-ups (a certificate number on the public API): Kysely builds and compiles a query on
+ * every call, and its SQLite driver prepares the statement each time. `build` makes the query
+ * with stand-in values; each run passes the real ones, in the same order. On a SQLite file the
+ * statement is prepared once on the read-only connection (`sqliteReader`); elsewhere (PostgreSQL,
+ * an in-memory database, inside a transaction) the compiled text runs through Kysely's driver
+ * with the new parameters. For reads only.
+ */
+export function reusableQuery<Row>(build: (db: Kysely<Schema>) => { compile(): CompiledQuery<Row> }) {
+	const prepared = new WeakMap<Kysely<Schema>, (parameters: readonly unknown[]) => Promise<Row[]>>();
+	return (db: Kysely<Schema>, parameters: readonly unknown[]): Promise<Row[]> => {
+		let run = prepared.get(db);
+		if (!run) {
+			const compiled = build(db).compile();
+			const count = compiled.parameters.length;
+			const statement = sqliteReader(db)?.prepare(compiled.sql);
+			run = (values) => {
+				if (values.length !== count) throw new Error(`reusableQuery: ${values.length} parameters given, ${count} expected`);
+				return statement ? Promise.resolve(statement.all(...values) as Row[]) : db.executeQuery(CompiledQuery.raw(compiled.sql, [...values])).then((r) => r.rows as Row[]);
+			};
+			prepared.set(db, run);
+		}
+		return run(parameters);
+	};
 }
 
 export class DataDirError extends Error {}
