@@ -3,8 +3,8 @@ import path from 'node:path';
 
 /**
  * adapter-node with one addition to the entry point it writes (`build/index.js`): before
- * adapter-node's handler, a middleware hands each request to the app's fast JSON path
- * (src/lib/server/fast-api.ts) when the app has published one, and otherwise passes it on.
+ * adapter-node's handler, a middleware hands each request to the app's front door
+ * (src/lib/server/fast-front.ts) when the app has published one, and otherwise passes it on.
  * The entry point keeps everything else of adapter-node's (settings, socket activation,
  * graceful shutdown). If a new adapter-node writes its entry point differently, the build
  * stops here with a message instead of silently leaving the fast path out.
@@ -13,9 +13,9 @@ import path from 'node:path';
 export const SERVER_LINE = 'polka({ server: httpServer }).use(handler)';
 
 export const FRONT = `
-/** Patchwright: the hot JSON routes are answered before SvelteKit builds a Request (src/lib/server/fast-api.ts). */
+/** Patchwright: the hot JSON routes are answered before SvelteKit builds a Request (src/lib/server/fast-front.ts). */
 const fast_front = (req, res, next) => {
-	const fast = globalThis[Symbol.for('patchwright.fast-api')];
+	const fast = globalThis[Symbol.for('patchwright.fast-front')];
 	return fast ? fast(req, res, next) : next();
 };
 `;

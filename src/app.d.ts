@@ -16,6 +16,8 @@ declare global {
 			databaseBusy: boolean;
 			/** A lesson body this person may read, put into the page by the `lessonBody` hook (see $lib/server/lesson-html). */
 			lessonBody?: string;
+			/** Set by a load function whose page is the same for every visitor not signed in (see $lib/server/page-cache). */
+			sharedForSeconds?: number;
 		}
 		interface PageData {
 			user?: Identity | null;

@@ -2,7 +2,8 @@ import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
 import { apiGuard, busyAnswer, BUSY_MESSAGE, errorIds, isApiPath, toResponse } from '$lib/server/api';
-import { publishFastApi } from '$lib/server/fast-api';
+import { publishFastFront } from '$lib/server/fast-front';
+import { pageCache } from '$lib/server/page-cache';
 import { setSecurityHeaders } from '$lib/server/security-headers';
 import { authHandle, authSecret } from '$lib/server/auth';
 import { ConfigError, loadConfig } from '$lib/server/config';
@@ -35,7 +36,7 @@ export const init: ServerInit = async () => {
 			console.log('Seeded the demo scenario.');
 		}
 		const jobs = startSchedules();
-		publishFastApi();
+		publishFastFront();
 		// adapter-node emits this once the HTTP server has closed (SIGTERM, SIGINT): the jobs'
 		// timers and a PostgreSQL pool's idle connections would otherwise keep the process alive.
 		process.once('sveltekit:shutdown', () => {
@@ -106,7 +107,7 @@ const identity: Handle = async ({ event, resolve }) => {
 const lessonBody: Handle = ({ event, resolve }) =>
 	resolve(event, { transformPageChunk: ({ html }) => fillLessonBodySlot(html, event.locals.lessonBody) });
 
-export const handle = sequence(responseRules, apiGuard, identity, lessonBody);
+export const handle = sequence(responseRules, apiGuard, identity, pageCache, lessonBody);
 
 export const handleError: HandleServerError = ({ error, event, status, message }) => {
 	if (status === 404) return { message: 'Not found' };

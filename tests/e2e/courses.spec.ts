@@ -231,3 +231,22 @@ test('the course page leads to practice and to the course test, with the test st
 	await page.getByRole('link', { name: /Course test|Resume the course test/ }).click();
 	await expect(page).toHaveURL(/\/courses\/packer-pressure-safety\/test$/);
 });
+
+test('the catalogue is shared by visitors, never shown to a signed-in person as a visitor sees it', async ({ page }) => {
+	const visitor = await newRequest.newContext({ baseURL });
+	const first = await visitor.get('/courses');
+	const second = await visitor.get('/courses');
+	expect(await second.text()).toBe(await first.text());
+	expect(first.headers()['content-security-policy']).toMatch(/script-src 'self' 'sha256-/);
+	expect(first.headers()['cache-control'] ?? '', 'browsers must not keep the visitor copy').not.toMatch(/public|max-age/);
+	expect(await first.text()).toContain('Sign in');
+	await signInWithPassword(page, who.trainee);
+	await page.goto('/courses');
+	await expect(page.getByRole('button', { name: 'Sign out' }).first()).toBeAttached();
+	// the page hydrates without a CSP violation (its inline start-up script matches the hash)
+	const errors = collectConsoleErrors(page);
+	await page.reload();
+	await expect(page.getByRole('heading', { level: 1 })).toBeVisible();
+	expect(errors).toEqual([]);
+	await visitor.dispose();
+});

@@ -15,12 +15,8 @@ import { identityForSession } from './sessions';
  * Everything else, and anything here it does not fully recognise (another method, a path that
  * needs decoding or normalising, a body without a declared length), goes on to SvelteKit
  * untouched, so the answers are the same either way: same headers, same error shape, same limits.
- *
- * `publishFastApi` (called once the server has started) leaves it where the built entry point
- * looks for it; `scripts/adapter-fast-front.js` adds that look-up to adapter-node's entry point.
+ * It is one part of the built server's front door (`fast-front.ts`).
  */
-
-export const FAST_API_KEY = Symbol.for('patchwright.fast-api');
 
 export type Middleware = (req: IncomingMessage, res: ServerResponse, next: () => void) => void;
 
@@ -131,8 +127,3 @@ export const fastApi: Middleware = (req, res, next) => {
 		() => res.destroy()
 	);
 };
-
-/** Makes the fast path available to the built entry point (see `scripts/adapter-fast-front.js`). */
-export function publishFastApi(): void {
-	(globalThis as Record<symbol, unknown>)[FAST_API_KEY] = fastApi;
-}

@@ -9,6 +9,9 @@ import type { Cookies } from '@sveltejs/kit';
  */
 
 const COOKIE_NAMES = ['__Secure-authjs.session-token', 'authjs.session-token'] as const;
+
+/** Whether a Cookie header may carry a session (by name only: whether it is valid is not asked). */
+export const hasSessionCookie = (header: string | undefined): boolean => !!header && COOKIE_NAMES.some((name) => header.includes(name));
 const MAX_REMEMBERED = 10_000;
 
 interface Claims {

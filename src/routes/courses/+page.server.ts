@@ -1,9 +1,12 @@
 import { courses } from '$lib/content';
 import { listEnrolledProgress } from '$lib/server/progress';
+import { shareWhenAnonymous } from '$lib/server/page-cache';
 import type { PageServerLoad } from './$types';
 
 /** The public catalogue; a signed-in person also sees their progress in each enrolled course. */
-export const load: PageServerLoad = async ({ locals }) => {
+export const load: PageServerLoad = async (event) => {
+	const { locals } = event;
+	shareWhenAnonymous(event);
 	const enrolled = locals.user ? await listEnrolledProgress(locals.user.id) : [];
 	const progress = new Map(enrolled.map((e) => [e.slug, e.progress]));
 	return {

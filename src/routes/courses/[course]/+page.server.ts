@@ -4,12 +4,15 @@ import { isEnrolled } from '$lib/server/enrolments';
 import { getCourseProgress } from '$lib/server/progress';
 import { testStatus } from '$lib/server/attempts';
 import { readerLocale } from '$lib/server/locale';
+import { shareWhenAnonymous } from '$lib/server/page-cache';
 import type { PageServerLoad } from './$types';
 
 /** A course's outline, what its certificate proves, price and validity; progress when enrolled. */
-export const load: PageServerLoad = async ({ params, locals, request }) => {
+export const load: PageServerLoad = async (event) => {
+	const { params, locals, request } = event;
 	const course = getCourse(params.course);
 	if (!course) error(404, 'No such course');
+	shareWhenAnonymous(event);
 	const enrolled = locals.user ? await isEnrolled(locals.user.id, course.slug) : false;
 	const { lessons, prerequisites, ...meta } = course;
 	return {
