@@ -15,7 +15,7 @@ declare global {
 			/** Set by handleError when the database's write lock could not be had: the answer becomes 503. */
 			databaseBusy: boolean;
 			/** A lesson body this person may read, put into the page by the `lessonBody` hook (see $lib/server/lesson-html). */
-			lessonBody?: string;
+			lessonBody?: Uint8Array;
 			/** Set by a load function whose page is the same for every visitor not signed in (see $lib/server/page-cache). */
 			sharedForSeconds?: number;
 		}

@@ -12,7 +12,7 @@ import { DataDirError } from '$lib/server/db/engine';
 import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
-import { fillLessonBodySlot } from '$lib/server/lesson-html';
+import { pageWithBody } from '$lib/server/lesson-html';
 import { seedDemoPracticals } from '$lib/server/demo-practicals';
 import { issuerKey } from '$lib/server/issuer-key';
 import { startSchedules } from '$lib/server/schedules';
@@ -103,9 +103,24 @@ const identity: Handle = async ({ event, resolve }) => {
 	);
 };
 
-/** A lesson page's body goes into the rendered page here, not through the page data. */
-const lessonBody: Handle = ({ event, resolve }) =>
-	resolve(event, { transformPageChunk: ({ html }) => fillLessonBodySlot(html, event.locals.lessonBody) });
+/**
+ * A lesson page's body goes into the rendered page here, not through the page data, and after
+ * SvelteKit has finished the page: SvelteKit hashes every whole page it renders for an ETag, and
+ * on an 80 KB lesson that hash was a fifth of the request's time. The body is the same for
+ * everyone and changes only with a build, and lesson pages are not stored by browsers
+ * (no-store when signed in), so the page goes without an ETag.
+ */
+const lessonBody: Handle = async ({ event, resolve }) => {
+	const response = await resolve(event);
+	const body = event.locals.lessonBody;
+	if (body === undefined || response.status !== 200) return response;
+	const text = await response.text();
+	const page = pageWithBody(text, body) ?? new TextEncoder().encode(text);
+	const headers = new Headers(response.headers);
+	headers.delete('etag');
+	headers.set('content-length', String(page.byteLength));
+	return new Response(page, { status: response.status, headers });
+};
 
 export const handle = sequence(responseRules, apiGuard, identity, pageCache, lessonBody);
 

@@ -17,6 +17,8 @@ import { LESSON_HREF, LESSON_BODY_SLOT } from '$lib/components/lesson/islands';
 
 export interface LessonHtml {
 	html: string;
+	/** `html` as UTF-8, encoded once: a full page is put together from bytes (see `pageWithBody`). */
+	bytes: Uint8Array;
 	/** The body has KaTeX formulas, so the page loads KaTeX's stylesheet and fonts. */
 	math: boolean;
 }
@@ -32,7 +34,7 @@ async function renderLesson(lesson: Lesson): Promise<LessonHtml> {
 	// Svelte's hydration markers are comments; the body is static HTML (islands mount afresh), and
 	// an empty comment inside `{@html}` would end the block early when the page hydrates.
 	const html = body.replace(/<!--[\s\S]*?-->/g, '');
-	return { html, math: html.includes('class="katex"') };
+	return { html, bytes: new TextEncoder().encode(html), math: html.includes('class="katex"') };
 }
 
 export function lessonHtml(lesson: Lesson): Promise<LessonHtml> {
@@ -45,9 +47,21 @@ export function lessonHtml(lesson: Lesson): Promise<LessonHtml> {
 	return html;
 }
 
-/** Puts a lesson body the load function has allowed (`locals.lessonBody`) into the page. */
-export function fillLessonBodySlot(html: string, body: string | undefined): string {
-	if (body === undefined) return html;
-	const at = html.indexOf(LESSON_BODY_SLOT);
-	return at === -1 ? html : html.slice(0, at) + body + html.slice(at + LESSON_BODY_SLOT.length);
+const encoder = new TextEncoder();
+
+/**
+ * The page with a lesson body the load function has allowed (`locals.lessonBody`) in its slot,
+ * as bytes: the page around the slot is encoded per request, the body was encoded once.
+ * Null when the page has no slot.
+ */
+export function pageWithBody(page: string, body: Uint8Array): Uint8Array | null {
+	const at = page.indexOf(LESSON_BODY_SLOT);
+	if (at === -1) return null;
+	const before = encoder.encode(page.slice(0, at));
+	const after = encoder.encode(page.slice(at + LESSON_BODY_SLOT.length));
+	const bytes = new Uint8Array(before.byteLength + body.byteLength + after.byteLength);
+	bytes.set(before, 0);
+	bytes.set(body, before.byteLength);
+	bytes.set(after, before.byteLength + body.byteLength);
+	return bytes;
 }

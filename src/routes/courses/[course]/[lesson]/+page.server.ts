@@ -33,7 +33,7 @@ export const load: PageServerLoad = async (event) => {
 		enrolled ? getCourseProgress(locals.user!.id, course).then((p) => p.doneLessons) : ([] as string[])
 	]);
 	// A full page gets the body from the lessonBody hook; client-side navigation gets it here.
-	if (!event.isDataRequest) locals.lessonBody = body.html;
+	if (!event.isDataRequest) locals.lessonBody = body.bytes;
 	// A seat counts as used from the first lesson opened beyond the free previews.
 	if (enrolled && !lesson.preview) await markSeatInUse(locals.user!.id, course.slug);
 	return {
