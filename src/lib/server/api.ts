@@ -153,8 +153,15 @@ export async function readCapped(
 		bytes.set(chunk, at);
 		at += chunk.byteLength;
 	}
+	return decodeBody(bytes);
+}
+
+const utf8 = new TextDecoder('utf-8', { fatal: true });
+
+/** A body's bytes as text: 400 unless they are UTF-8. */
+export function decodeBody(bytes: Uint8Array): TextRead {
 	try {
-		return { ok: true, text: new TextDecoder('utf-8', { fatal: true }).decode(bytes) };
+		return { ok: true, text: utf8.decode(bytes) };
 	} catch {
 		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body is not valid UTF-8.') };
 	}

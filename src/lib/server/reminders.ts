@@ -267,7 +267,7 @@ export async function sendDueReminders({ db = defaultDb, now = new Date(), origi
 		try {
 			await send({ ...reminderMail(reminder, origin), messageId: `<reminder-${claimId}@patchwright.invalid>` });
 		} catch (e) {
-			console.error(`Reminder for certificate ${reminder.number} to ${reminder.recipient.email} not sent:`, e);
+			console.error(`Reminder for certificate ${reminder.number} to ${reminder.recipient.email} not sent (retried next run): ${e instanceof Error ? e.message : String(e)}`);
 			await db.deleteFrom('certificate_reminder').where('id', '=', claimId).where('sent_at', 'is', null).execute();
 			run.failed++;
 			continue;
