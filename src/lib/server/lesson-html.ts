@@ -54,7 +54,7 @@ const encoder = new TextEncoder();
  * as bytes: the page around the slot is encoded per request, the body was encoded once.
  * Null when the page has no slot.
  */
-export function pageWithBody(page: string, body: Uint8Array): Uint8Array | null {
+export function pageWithBody(page: string, body: Uint8Array): Uint8Array<ArrayBuffer> | null {
 	const at = page.indexOf(LESSON_BODY_SLOT);
 	if (at === -1) return null;
 	const before = encoder.encode(page.slice(0, at));
