@@ -129,6 +129,8 @@ describe('the fast JSON path', () => {
 			['GET', '/api/v1//health'],
 			['GET', '/api/v1/%68ealth'],
 			['GET', '/api/v1/certificates/7ZZZ%2DZZZZ'],
+			['GET', '/api/v1/certificates/..'],
+			['POST', '/api/v1/calculations/.'],
 			['GET', '/api/v1/attempts/1'],
 			['GET', '/courses']
 		]) {

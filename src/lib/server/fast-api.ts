@@ -45,8 +45,8 @@ export function matchRoute(method: string, pathname: string): { route: ApiRoute;
 			const segment = segments[i];
 			const part = parts[i];
 			if (segment.literal !== undefined) ok = part === segment.literal;
-			// anything encoded is left to SvelteKit, which decodes and normalises paths its own way
-			else ok = part !== '' && !part.includes('%');
+			// anything encoded or relative is left to SvelteKit, which decodes and normalises paths its own way
+			else ok = part !== '' && part !== '.' && part !== '..' && !part.includes('%');
 			if (ok && segment.param) params[segment.param] = part;
 		}
 		if (ok) return { route, params };
