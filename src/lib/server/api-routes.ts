@@ -103,8 +103,12 @@ export const kitRoute =
 		toResponse(
 			await route.answer({
 				params: event.params as Record<string, string>,
-				query: event.url.searchParams,
-				clientAddress: event.getClientAddress(),
+				get query() {
+					return event.url.searchParams;
+				},
+				get clientAddress() {
+					return event.getClientAddress();
+				},
 				jsonText: () => readJsonAnswer(event.request),
 				identity: async () => event.locals.user
 			})
