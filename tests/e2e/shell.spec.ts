@@ -58,3 +58,12 @@ test('the API page hydrates cleanly and keeps the backslash of a shell line cont
 	await expect(page.locator('pre.shiki').filter({ hasText: 'curl' })).toContainText('\\');
 	expect(messages.filter((m) => /hydration/i.test(m))).toEqual([]);
 });
+
+test('on a wide screen the header keeps "Sign out" on one line, even with the longest menu (a company admin)', async ({ page }) => {
+	await page.setViewportSize({ width: 1280, height: 800 });
+	await signInWithPassword(page, who.companyAdmin);
+	const signOut = page.getByRole('banner').getByRole('button', { name: 'Sign out' });
+	const box = (await signOut.boundingBox())!;
+	const lineHeight = await signOut.evaluate((el) => parseFloat(getComputedStyle(el).lineHeight));
+	expect(box.height).toBeLessThan(lineHeight * 2);
+});
