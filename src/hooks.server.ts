@@ -18,8 +18,7 @@ import { issuerKey } from '$lib/server/issuer-key';
 import { startSchedules } from '$lib/server/schedules';
 import { checkFileStore, StorageUnavailableError } from '$lib/server/storage';
 import { withRequestContext } from '$lib/server/request-context';
-import { sessionIdFromCookie } from '$lib/server/session-cookie';
-import { identityForSession } from '$lib/server/sessions';
+import { whoIsAsking } from '$lib/server/session-cookie';
 
 export const init: ServerInit = async () => {
 	// Prerendering during `vite build` runs this hook too; the build must not touch a database.
@@ -91,10 +90,10 @@ const identity: Handle = async ({ event, resolve }) => {
 	event.locals.sessionId = null;
 	event.locals.databaseBusy = false;
 	if (building) return resolve(event);
-	const sessionId = await sessionIdFromCookie(event.cookies, authSecret);
-	if (sessionId) {
-		event.locals.user = await identityForSession(sessionId);
-		if (event.locals.user) event.locals.sessionId = sessionId;
+	const asking = await whoIsAsking(event.cookies, authSecret);
+	if (asking) {
+		event.locals.user = asking.user;
+		event.locals.sessionId = asking.sessionId;
 	}
 	const isAuthPath = event.url.pathname.startsWith('/auth/');
 	if (!isAuthPath && event.request.method === 'GET') return resolve(event);

@@ -5,8 +5,7 @@ import { hotRoutes, type ApiCall, type ApiRoute } from './api-routes';
 import { authSecret } from './auth';
 import { isDatabaseBusy } from './db/errors';
 import { NO_STORE, SECURITY_HEADERS } from './security-headers';
-import { sessionIdFromCookie } from './session-cookie';
-import { identityForSession } from './sessions';
+import { whoIsAsking } from './session-cookie';
 
 /**
  * The built server's front door for the hot JSON routes (`api-routes.ts`): it answers them from
@@ -105,8 +104,7 @@ function callOf(req: IncomingMessage, params: Record<string, string>, query: str
 			const header = req.headers.cookie;
 			if (!header) return null;
 			const cookies = parseCookies(header);
-			const sessionId = await sessionIdFromCookie({ get: (name) => cookies[name] }, authSecret);
-			return sessionId ? identityForSession(sessionId) : null;
+			return (await whoIsAsking({ get: (name) => cookies[name] }, authSecret))?.user ?? null;
 		}
 	};
 }

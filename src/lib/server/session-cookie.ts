@@ -1,5 +1,7 @@
 import { decode } from '@auth/core/jwt';
 import type { Cookies } from '@sveltejs/kit';
+import type { Identity } from '$lib/roles';
+import { identityForSession } from './sessions';
 
 /**
  * Reads Auth.js's session cookie without running Auth.js: the cookie is a JWE that Auth.js's
@@ -50,4 +52,15 @@ export async function sessionIdFromCookie(cookies: Pick<Cookies, 'get'>, secret:
 		return null;
 	}
 	return null;
+}
+
+/**
+ * Who is asking: the open session the cookie names and its person, or null. The one rule for
+ * every way in (the hooks, and the built server's front door for the hot JSON routes).
+ */
+export async function whoIsAsking(cookies: Pick<Cookies, 'get'>, secret: () => string): Promise<{ sessionId: string; user: Identity } | null> {
+	const sessionId = await sessionIdFromCookie(cookies, secret);
+	if (!sessionId) return null;
+	const user = await identityForSession(sessionId);
+	return user ? { sessionId, user } : null;
 }
