@@ -1,7 +1,7 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { building } from '$app/environment';
-import { apiGuard, busyAnswer, BUSY_MESSAGE, errorIds, isApiPath, toResponse } from '$lib/server/api';
+import { apiGuard, busyAnswer, BUSY_MESSAGE, errorIds, isApiPath, logUnexpected, toResponse } from '$lib/server/api';
 import { publishFastFront } from '$lib/server/fast-front';
 import { pageCache } from '$lib/server/page-cache';
 import { setSecurityHeaders } from '$lib/server/security-headers';
@@ -129,8 +129,7 @@ export const handleError: HandleServerError = ({ error, event, status, message }
 		event.locals.databaseBusy = true;
 		return { message: BUSY_MESSAGE };
 	}
-	const id = crypto.randomUUID().slice(0, 8);
-	console.error(`[error ${id}] ${event.request.method} ${event.url.pathname}`, error);
+	const id = logUnexpected(event.request.method, event.url.pathname, error);
 	errorIds.set(event.request, id);
 	return { message: status >= 500 ? 'Something went wrong on our side.' : message, id };
 };

@@ -9,6 +9,8 @@ import { migrateToLatest } from '$lib/server/db/migrate';
 import { useLimitStore } from '$lib/server/rate-limit';
 import { addFastFront, SERVER_LINE } from '../../scripts/adapter-fast-front.js';
 import { useTemporaryDataDir } from '../helpers/certificates';
+import { POST as verifyPost } from '../../src/routes/api/v1/certificates/verify/+server';
+import type { RequestEvent } from '@sveltejs/kit';
 
 /**
  * The built server's fast path for the hot JSON routes, over a real node:http server: what it
@@ -118,6 +120,22 @@ describe('the fast JSON path', () => {
 			expect(res.status).toBe(401);
 			expect(JSON.parse(res.text)).toEqual({ error: { code: 'unauthorized', message: 'Sign in first.' } });
 		}
+	});
+
+	it('counts look-ups by number and by list against one per-address limit, each refusal a 429 with Retry-After', async () => {
+		let last = await send('GET', '/api/v1/certificates/7ZZZ-ZZZZ-ZZZZ-ZZZZ');
+		for (let i = 0; i < 200 && last.status !== 429; i++) last = await send('GET', '/api/v1/certificates/7ZZZ-ZZZZ-ZZZZ-ZZZZ');
+		expect(last.status).toBe(429);
+		expect(Number(last.headers['retry-after'])).toBeGreaterThan(0);
+		expect(JSON.parse(last.text).error).toEqual({ code: 'rate_limited', message: expect.stringMatching(/^Too many look-ups/) });
+		// the list check (a SvelteKit route) is refused for the same address, in the same shape
+		const listed = await verifyPost({
+			request: new Request('http://localhost/api/v1/certificates/verify', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ numbers: ['7ZZZ-ZZZZ-ZZZZ-ZZZZ'] }) }),
+			getClientAddress: () => '127.0.0.1'
+		} as unknown as Parameters<typeof verifyPost>[0] & RequestEvent);
+		expect(listed.status).toBe(429);
+		expect(Number(listed.headers.get('retry-after'))).toBeGreaterThan(0);
+		expect((await listed.json()).error.code).toBe('rate_limited');
 	});
 
 	it('leaves SvelteKit everything it does not fully recognise', async () => {

@@ -6,7 +6,7 @@ import type { RequestEvent } from '@sveltejs/kit';
 import { errorAnswer, readJsonAnswer, toResponse, type Answer, type TextRead } from './api';
 import { getDb } from './db';
 import { limitAnswer } from './rate-limit';
-import { apiCertificate, chargeLookups, lookUp } from './verification';
+import { apiCertificate, lookUp, lookupLimitAnswer } from './verification';
 
 /**
  * The JSON routes that are called most (health checks, the public calculators and practice
@@ -72,13 +72,8 @@ export const certificate: ApiRoute = {
 	id: '/api/v1/certificates/[number]',
 	method: 'GET',
 	async answer(call) {
-		const wait = await chargeLookups(call.clientAddress);
-		if (wait) {
-			return {
-				...errorAnswer(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`),
-				headers: { 'Retry-After': String(wait) }
-			};
-		}
+		const refused = await lookupLimitAnswer(call.clientAddress);
+		if (refused) return refused;
 		const found = await lookUp(call.params.number);
 		return found ? { status: 200, body: apiCertificate(found) } : errorAnswer(404, 'not_found', 'No certificate has this number.');
 	}

@@ -93,8 +93,21 @@ export function apiError(status: number, code: ApiErrorCode, message: string, fi
 	return json(errorAnswer(status, code, message, fields, options).body, { status, headers: options.headers });
 }
 
+/** Writes an unexpected error to the log with a short reference, and returns the reference (shown to the person). */
+export function logUnexpected(method: string, pathname: string, error: unknown): string {
+	const id = crypto.randomUUID().slice(0, 8);
+	console.error(`[error ${id}] ${method} ${pathname}`, error);
+	return id;
+}
+
+/** 429 with Retry-After, in the API's shape. */
+export const rateLimitedAnswer = (seconds: number, message: string): Answer => ({
+	...errorAnswer(429, 'rate_limited', message),
+	headers: { 'Retry-After': String(seconds) }
+});
+
 /** Seconds a client is asked to wait when the database was busy. */
-export const BUSY_RETRY_AFTER_SECONDS = 2;
+const BUSY_RETRY_AFTER_SECONDS = 2;
 export const BUSY_MESSAGE = 'The database is busy. Try again in a moment.';
 
 /** 503 with Retry-After: another process held the database's write lock too long. */

@@ -1,6 +1,6 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import { parse as parseCookies } from 'cookie';
-import { busyAnswer, decodeBody, declaredTooLarge, DEFAULT_MAX_BYTES, errorAnswer, readCapped, refuseNonJson, type Answer, type TextRead } from './api';
+import { busyAnswer, decodeBody, logUnexpected, declaredTooLarge, DEFAULT_MAX_BYTES, errorAnswer, readCapped, refuseNonJson, type Answer, type TextRead } from './api';
 import { hotRoutes, type ApiCall, type ApiRoute } from './api-routes';
 import { authSecret } from './auth';
 import { isDatabaseBusy } from './db/errors';
@@ -114,9 +114,7 @@ async function answerSafely(method: string, pathname: string, route: ApiRoute, c
 		return await route.answer(call);
 	} catch (e) {
 		if (isDatabaseBusy(e)) return busyAnswer();
-		const id = crypto.randomUUID().slice(0, 8);
-		console.error(`[error ${id}] ${method} ${pathname}`, e);
-		return errorAnswer(500, 'internal', 'Something went wrong on our side.', undefined, { id });
+		return errorAnswer(500, 'internal', 'Something went wrong on our side.', undefined, { id: logUnexpected(method, pathname, e) });
 	}
 }
 

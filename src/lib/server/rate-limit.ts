@@ -1,6 +1,6 @@
 import Database from 'better-sqlite3';
 import { sql } from 'kysely';
-import { errorAnswer, toResponse, type Answer } from './api';
+import { rateLimitedAnswer, toResponse, type Answer } from './api';
 import { config } from './config';
 import { getDb, type DB } from './db';
 import { ensureWritableDir } from './db/engine';
@@ -237,10 +237,7 @@ export interface ApiLimit {
 export async function limitAnswer(clientAddress: string, { bucket, limit, windowMs }: ApiLimit): Promise<Answer | null> {
 	const verdict = await hitReserving(bucket, clientAddress, scaledLimit(limit), windowMs);
 	if (verdict.ok) return null;
-	return {
-		...errorAnswer(429, 'rate_limited', `Too many requests from this address. Try again in ${verdict.retryAfterSeconds} s.`),
-		headers: { 'Retry-After': String(verdict.retryAfterSeconds) }
-	};
+	return rateLimitedAnswer(verdict.retryAfterSeconds, `Too many requests from this address. Try again in ${verdict.retryAfterSeconds} s.`);
 }
 
 /** `limitAnswer` for a SvelteKit route, as a Response. */

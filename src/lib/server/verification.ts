@@ -4,6 +4,7 @@ import { checkNumbers, CREW_CHECK_LIMIT, findCertificate, type CrewRow, type Pub
 import { checkUploadedPdf } from './certificate-documents';
 import { verifyCredentialJwt } from './credential';
 import { db as defaultDb, getDb, type DB } from './db';
+import { rateLimitedAnswer, type Answer } from './api';
 import { config } from './config';
 import { hitReserving, scaledLimit } from './rate-limit';
 
@@ -20,6 +21,12 @@ export async function chargeLookups(address: string, count = 1): Promise<number>
 	let verdict = { ok: true, retryAfterSeconds: 0 };
 	for (let i = 0; i < Math.max(1, count) && verdict.ok; i++) verdict = await hitReserving(LOOKUP_BUCKET, address, limit, 60_000);
 	return verdict.ok ? 0 : verdict.retryAfterSeconds;
+}
+
+/** 429 with Retry-After once `count` more look-ups would pass the address's limit; null while they may go ahead. */
+export async function lookupLimitAnswer(address: string, count = 1): Promise<Answer | null> {
+	const wait = await chargeLookups(address, count);
+	return wait ? rateLimitedAnswer(wait, `Too many look-ups from this address. Try again in ${wait} s.`) : null;
 }
 
 /** What the API answers for one number: `null` for not found (malformed or unknown alike). */

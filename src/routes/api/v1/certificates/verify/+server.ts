@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { checkNumbers } from '$lib/server/certificates';
-import { apiCertificate, apiCrewRow, chargeLookups, jwtBody, looksLikePdf, MAX_UPLOAD_BYTES, numbersBody, verifyJwt, verifyPdf, type FileVerdict } from '$lib/server/verification';
+import { apiCertificate, apiCrewRow, jwtBody, lookupLimitAnswer, looksLikePdf, MAX_UPLOAD_BYTES, numbersBody, verifyJwt, verifyPdf, type FileVerdict } from '$lib/server/verification';
+import { toResponse } from '$lib/server/api';
 import type { RequestHandler } from './$types';
 
 const problem = (status: number, code: string, message: string, fields?: Record<string, string>) =>
@@ -35,14 +36,14 @@ export const POST: RequestHandler = async (event) => {
 
 	if (type === 'application/pdf') {
 		if (!looksLikePdf(bytes)) return problem(400, 'bad_request', 'The body is not a PDF file.');
-		const wait = await chargeLookups(event.getClientAddress());
-		if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
+		const refused = await lookupLimitAnswer(event.getClientAddress());
+		if (refused) return toResponse(refused);
 		return json(fileAnswer(await verifyPdf(bytes)));
 	}
 	const text = new TextDecoder().decode(bytes);
 	if (type === 'application/jwt') {
-		const wait = await chargeLookups(event.getClientAddress());
-		if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
+		const refused = await lookupLimitAnswer(event.getClientAddress());
+		if (refused) return toResponse(refused);
 		return json(fileAnswer(await verifyJwt(text)));
 	}
 	if (type !== 'application/json') return problem(415, 'unsupported_type', 'Send application/json, application/jwt or application/pdf.');
@@ -54,8 +55,8 @@ export const POST: RequestHandler = async (event) => {
 	}
 	const asJwt = jwtBody.safeParse(body);
 	if (asJwt.success) {
-		const wait = await chargeLookups(event.getClientAddress());
-		if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
+		const refused = await lookupLimitAnswer(event.getClientAddress());
+		if (refused) return toResponse(refused);
 		return json(fileAnswer(await verifyJwt(asJwt.data.jwt)));
 	}
 	const asNumbers = numbersBody.safeParse(body);
@@ -63,7 +64,7 @@ export const POST: RequestHandler = async (event) => {
 		const fields = Object.fromEntries(asNumbers.error.issues.map((i) => [i.path.join('.') || 'body', i.message]));
 		return problem(400, 'bad_request', 'Send {"numbers": [...]} (up to 200) or {"jwt": "..."}.', fields);
 	}
-	const wait = await chargeLookups(event.getClientAddress(), asNumbers.data.numbers.length);
-	if (wait) return problem(429, 'rate_limited', `Too many look-ups from this address. Try again in ${wait} s.`);
+	const refused = await lookupLimitAnswer(event.getClientAddress(), asNumbers.data.numbers.length);
+	if (refused) return toResponse(refused);
 	return json({ results: (await checkNumbers(asNumbers.data.numbers)).map(apiCrewRow) });
 };
