@@ -129,12 +129,6 @@ export function isJsonType(contentType: string | null | undefined): boolean {
 
 const tooLarge = (maxBytes: number) => errorAnswer(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`);
 
-/** A body whose declared length is over the cap is refused before a byte is read. */
-export function declaredTooLarge(contentLength: string | null | undefined, maxBytes: number): boolean {
-	const declared = Number(contentLength);
-	return contentLength != null && Number.isFinite(declared) && declared > maxBytes;
-}
-
 /**
  * Reads at most `maxBytes` of a body (a web stream or a Node request: both are async iterables
  * of bytes), stopping as soon as more arrive. Throws nothing: a body over the cap (or over the
@@ -145,7 +139,8 @@ export async function readCapped(
 	body: AsyncIterable<Uint8Array> | null,
 	maxBytes = DEFAULT_MAX_BYTES
 ): Promise<TextRead> {
-	if (declaredTooLarge(contentLength, maxBytes)) return { ok: false, answer: tooLarge(maxBytes) };
+	const declared = Number(contentLength);
+	if (contentLength != null && Number.isFinite(declared) && declared > maxBytes) return { ok: false, answer: tooLarge(maxBytes) };
 	if (!body) return { ok: true, text: '' };
 	const chunks: Uint8Array[] = [];
 	let size = 0;
@@ -166,15 +161,8 @@ export async function readCapped(
 		bytes.set(chunk, at);
 		at += chunk.byteLength;
 	}
-	return decodeBody(bytes);
-}
-
-const utf8 = new TextDecoder('utf-8', { fatal: true });
-
-/** A body's bytes as text: 400 unless they are UTF-8. */
-export function decodeBody(bytes: Uint8Array): TextRead {
 	try {
-		return { ok: true, text: utf8.decode(bytes) };
+		return { ok: true, text: new TextDecoder('utf-8', { fatal: true }).decode(bytes) };
 	} catch {
 		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body is not valid UTF-8.') };
 	}

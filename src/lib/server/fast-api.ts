@@ -1,6 +1,6 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import { parse as parseCookies } from 'cookie';
-import { busyAnswer, decodeBody, logUnexpected, declaredTooLarge, DEFAULT_MAX_BYTES, errorAnswer, readCapped, refuseNonJson, type Answer, type TextRead } from './api';
+import { busyAnswer, errorAnswer, logUnexpected, readCapped, refuseNonJson, type Answer } from './api';
 import { hotRoutes, type ApiCall, type ApiRoute } from './api-routes';
 import { authSecret } from './auth';
 import { isDatabaseBusy } from './db/errors';
@@ -77,16 +77,6 @@ function write(res: ServerResponse, { status, body, headers }: Answer): void {
 	res.end(text);
 }
 
-/** A body of declared length, read with plain stream events (an async iterator costs more than the read). */
-function readDeclared(req: IncomingMessage): Promise<TextRead> {
-	return new Promise((resolve) => {
-		const chunks: Buffer[] = [];
-		req.on('data', (chunk: Buffer) => chunks.push(chunk));
-		req.on('end', () => resolve(decodeBody(chunks.length === 1 ? chunks[0] : Buffer.concat(chunks))));
-		req.on('error', () => resolve({ ok: false, answer: errorAnswer(400, 'bad_request', 'The request body could not be read.') }));
-	});
-}
-
 function callOf(req: IncomingMessage, params: Record<string, string>, query: string, address: string): ApiCall {
 	return {
 		params,
@@ -95,10 +85,9 @@ function callOf(req: IncomingMessage, params: Record<string, string>, query: str
 		async jsonText() {
 			const refused = refuseNonJson(req.headers['content-type']);
 			if (refused) return { ok: false, answer: refused };
-			// the length is declared (the front door sends chunked bodies on to SvelteKit) and
-			// Node's parser never delivers more than it, so a body within the cap is read whole
-			if (declaredTooLarge(req.headers['content-length'], DEFAULT_MAX_BYTES)) return readCapped(req.headers['content-length'], null, DEFAULT_MAX_BYTES);
-			return readDeclared(req);
+			// the length is declared (chunked bodies go on to SvelteKit): past the cap it is 413
+			// before a byte is read, and Node's parser never delivers more than it
+			return readCapped(req.headers['content-length'], req);
 		},
 		async identity() {
 			const header = req.headers.cookie;
