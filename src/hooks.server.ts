@@ -113,8 +113,7 @@ const lessonBody: Handle = async ({ event, resolve }) => {
 	const response = await resolve(event);
 	const body = event.locals.lessonBody;
 	if (body === undefined || response.status !== 200) return response;
-	const text = await response.text();
-	const page = pageWithBody(text, body) ?? new TextEncoder().encode(text);
+	const page = pageWithBody(await response.text(), body);
 	const headers = new Headers(response.headers);
 	headers.delete('etag');
 	headers.set('content-length', String(page.byteLength));

@@ -25,6 +25,7 @@ export interface LessonHtml {
 
 const bodies = import.meta.glob<{ default: Component }>('/content/courses/*/lessons/*.md');
 const rendered = new Map<string, Promise<LessonHtml>>();
+const encoder = new TextEncoder();
 
 async function renderLesson(lesson: Lesson): Promise<LessonHtml> {
 	const load = bodies[`/content/courses/${lesson.courseSlug}/lessons/${lesson.slug}.md`];
@@ -34,7 +35,7 @@ async function renderLesson(lesson: Lesson): Promise<LessonHtml> {
 	// Svelte's hydration markers are comments; the body is static HTML (islands mount afresh), and
 	// an empty comment inside `{@html}` would end the block early when the page hydrates.
 	const html = body.replace(/<!--[\s\S]*?-->/g, '');
-	return { html, bytes: new TextEncoder().encode(html), math: html.includes('class="katex"') };
+	return { html, bytes: encoder.encode(html), math: html.includes('class="katex"') };
 }
 
 export function lessonHtml(lesson: Lesson): Promise<LessonHtml> {
@@ -47,16 +48,14 @@ export function lessonHtml(lesson: Lesson): Promise<LessonHtml> {
 	return html;
 }
 
-const encoder = new TextEncoder();
-
 /**
  * The page with a lesson body the load function has allowed (`locals.lessonBody`) in its slot,
  * as bytes: the page around the slot is encoded per request, the body was encoded once.
- * Null when the page has no slot.
+ * A page without the slot comes back as it is.
  */
-export function pageWithBody(page: string, body: Uint8Array): Uint8Array<ArrayBuffer> | null {
+export function pageWithBody(page: string, body: Uint8Array): Uint8Array<ArrayBuffer> {
 	const at = page.indexOf(LESSON_BODY_SLOT);
-	if (at === -1) return null;
+	if (at === -1) return encoder.encode(page);
 	const before = encoder.encode(page.slice(0, at));
 	const after = encoder.encode(page.slice(at + LESSON_BODY_SLOT.length));
 	const bytes = new Uint8Array(before.byteLength + body.byteLength + after.byteLength);
