@@ -58,26 +58,41 @@ function eligible(event: RequestEvent): boolean {
 	return !building && event.request.method === 'GET' && event.locals.user === null && !event.isDataRequest && event.url.search === '' && !isApiPath(event.url.pathname);
 }
 
-function serve(entry: Entry, ifNoneMatch: string | null): Response {
-	if (entry.etag && ifNoneMatch === entry.etag) return new Response(null, { status: 304, headers: { etag: entry.etag } });
-	return new Response(entry.body, { status: 200, headers: entry.headers });
+/** A stored page still fresh for this path and reader, as status, headers and body (304 when the reader has it). */
+function storedAnswer(pathname: string, acceptLanguage: string | null | undefined, ifNoneMatch: string | null | undefined): Stored | null {
+	const found = entries.get(keyOf(pathname, acceptLanguage));
+	if (!found || found.until <= Date.now()) return null;
+	return answerFrom(found, ifNoneMatch);
 }
+
+interface Stored {
+	status: 200 | 304;
+	headers: [string, string][];
+	body: string | null;
+}
+
+const answerFrom = (entry: Entry, ifNoneMatch: string | null | undefined): Stored =>
+	entry.etag !== null && ifNoneMatch === entry.etag
+		? { status: 304, headers: [['etag', entry.etag]], body: null }
+		: { status: 200, headers: entry.headers, body: entry.body };
+
+const toWeb = ({ status, headers, body }: Stored) => new Response(body, { status, headers });
 
 /** The handle hook; runs after the session is read (it needs `locals.user`). */
 export const pageCache: Handle = async ({ event, resolve }) => {
 	if (!eligible(event)) return resolve(event);
-	const key = keyOf(event.url.pathname, event.request.headers.get('accept-language'));
-	const now = Date.now();
-	const found = entries.get(key);
-	if (found && found.until > now) return serve(found, event.request.headers.get('if-none-match'));
+	const acceptLanguage = event.request.headers.get('accept-language');
+	const stored = storedAnswer(event.url.pathname, acceptLanguage, event.request.headers.get('if-none-match'));
+	if (stored) return toWeb(stored);
 	const response = await resolve(event);
 	const seconds = event.locals.sharedForSeconds;
 	if (!seconds || response.status !== 200 || response.headers.has('set-cookie') || !response.headers.get('content-type')?.startsWith('text/html')) return response;
-	const entry: Entry = { body: await response.text(), headers: [...response.headers], etag: response.headers.get('etag'), until: now + seconds * 1000 };
+	const entry: Entry = { body: await response.text(), headers: [...response.headers], etag: response.headers.get('etag'), until: Date.now() + seconds * 1000 };
+	const key = keyOf(event.url.pathname, acceptLanguage);
 	entries.delete(key);
 	if (entries.size >= MAX_ENTRIES) entries.delete(entries.keys().next().value!);
 	entries.set(key, entry);
-	return serve(entry, null);
+	return toWeb(answerFrom(entry, null));
 };
 
 /**
@@ -89,14 +104,11 @@ export function fastPage(req: IncomingMessage, res: ServerResponse, next: () => 
 	if (req.method !== 'GET' || entries.size === 0) return next();
 	const url = req.url ?? '';
 	if (url.includes('?') || hasSessionCookie(req.headers.cookie)) return next();
-	const found = entries.get(keyOf(url, req.headers['accept-language']));
-	if (!found || found.until <= Date.now()) return next();
-	const notModified = found.etag !== null && req.headers['if-none-match'] === found.etag;
-	res.statusCode = notModified ? 304 : 200;
-	if (notModified) res.setHeader('etag', found.etag!);
-	else for (const [name, value] of found.headers) res.setHeader(name, value);
-	for (const [name, value] of SECURITY_HEADERS) res.setHeader(name, value);
-	res.end(notModified ? undefined : found.body);
+	const stored = storedAnswer(url, req.headers['accept-language'], req.headers['if-none-match']);
+	if (!stored) return next();
+	res.statusCode = stored.status;
+	for (const [name, value] of [...stored.headers, ...SECURITY_HEADERS]) res.setHeader(name, value);
+	res.end(stored.body ?? undefined);
 }
 
 /** Tests start from an empty cache. */
