@@ -1,14 +1,15 @@
 import fs from 'node:fs';
 import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { clientAddress, fastApi, matchRoute } from '$lib/server/fast-api';
+import { FAST_FRONT_KEY } from '$lib/server/fast-front';
 import { getDb } from '$lib/server/db';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { useLimitStore } from '$lib/server/rate-limit';
 import { addFastFront, SERVER_LINE } from '../../scripts/adapter-fast-front.js';
 import { useTemporaryDataDir } from '../helpers/certificates';
+import { FELL_THROUGH, serveMiddleware } from '../helpers/front-door';
 import { POST as verifyPost } from '../../src/routes/api/v1/certificates/verify/+server';
 import type { RequestEvent } from '@sveltejs/kit';
 
@@ -16,26 +17,20 @@ import type { RequestEvent } from '@sveltejs/kit';
  * The built server's fast path for the hot JSON routes, over a real node:http server: what it
  * answers must be what the SvelteKit routes answer (the access-table and end-to-end tests run
  * against the built app, so they go through it too), and what it does not fully recognise
- * must reach SvelteKit untouched (here: the fallback answers 299).
+ * must reach SvelteKit untouched (here: the stand-in answers FELL_THROUGH).
  */
 
-let server: http.Server;
+let front: Awaited<ReturnType<typeof serveMiddleware>>;
 let base: string;
 
 beforeAll(async () => {
 	useTemporaryDataDir();
 	process.env.AUTH_SECRET ??= 'a test secret that is long enough to derive keys from';
 	await migrateToLatest(getDb());
-	server = http.createServer((req, res) =>
-		fastApi(req, res, () => {
-			res.statusCode = 299;
-			res.end('fell through');
-		})
-	);
-	await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-	base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+	front = await serveMiddleware(fastApi);
+	base = front.base;
 });
-afterAll(() => new Promise<void>((resolve) => server.close(() => resolve())));
+afterAll(() => front.close());
 beforeEach(() => useLimitStore(new Database(':memory:')));
 
 /** A raw request, so a test decides exactly which headers go (fetch adds its own). */
@@ -152,11 +147,11 @@ describe('the fast JSON path', () => {
 			['GET', '/api/v1/attempts/1'],
 			['GET', '/courses']
 		]) {
-			expect((await send(method, path)).status, `${method} ${path}`).toBe(299);
+			expect((await send(method, path)).status, `${method} ${path}`).toBe(FELL_THROUGH);
 		}
 		// a body without a declared length (chunked) is read by SvelteKit, under its own body limit
 		const chunked = await send('POST', '/api/v1/calculations/laminate-volume', { 'Content-Type': 'application/json', 'Transfer-Encoding': 'chunked' }, '{}');
-		expect(chunked.status).toBe(299);
+		expect(chunked.status).toBe(FELL_THROUGH);
 	});
 
 	it('matches only its own routes, exactly, with the parameters named as in the route files', () => {
@@ -189,6 +184,8 @@ describe("the fast front in adapter-node's entry point", () => {
 		const patched = addFastFront(shipped);
 		expect(patched).toContain('polka({ server: httpServer }).use(fast_front, handler)');
 		expect(patched.indexOf('const fast_front')).toBeLessThan(patched.indexOf('use(fast_front'));
+		// the entry point looks for the front door under the key the app publishes it with
+		expect(patched).toContain(`globalThis[Symbol.for('${FAST_FRONT_KEY.description}')]`);
 		expect(addFastFront(patched)).toBe(patched);
 	});
 

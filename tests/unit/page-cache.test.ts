@@ -1,9 +1,8 @@
-import http from 'node:http';
-import type { AddressInfo } from 'node:net';
 import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { clearPageCache, fastPage, pageCache, shareWhenAnonymous } from '$lib/server/page-cache';
 import type { Identity } from '$lib/roles';
+import { FELL_THROUGH, serveMiddleware } from '../helpers/front-door';
 
 /**
  * Pages shared by every visitor who is not signed in: stored once a load function opts in,
@@ -82,22 +81,16 @@ describe('the shared page store (hook)', () => {
 });
 
 describe("the shared page store (the built server's front door)", () => {
-	let server: http.Server;
+	let front: Awaited<ReturnType<typeof serveMiddleware>>;
 	let base: string;
 	beforeAll(async () => {
-		server = http.createServer((req, res) =>
-			fastPage(req, res, () => {
-				res.statusCode = 299;
-				res.end('fell through');
-			})
-		);
-		await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-		base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+		front = await serveMiddleware(fastPage);
+		base = front.base;
 	});
-	afterAll(() => new Promise<void>((resolve) => server.close(() => resolve())));
+	afterAll(() => front.close());
 
 	it('serves a stored page with the security headers, and leaves the rest to SvelteKit', async () => {
-		expect((await fetch(`${base}/courses`)).status).toBe(299);
+		expect((await fetch(`${base}/courses`)).status).toBe(FELL_THROUGH);
 		await pageCache({ event: eventFor('/courses'), resolve: resolverFor() });
 		const stored = await fetch(`${base}/courses`);
 		expect(stored.status).toBe(200);
@@ -106,10 +99,10 @@ describe("the shared page store (the built server's front door)", () => {
 		expect(stored.headers.get('x-content-type-options')).toBe('nosniff');
 		expect(stored.headers.get('cache-control')).toBeNull();
 		expect((await fetch(`${base}/courses`, { headers: { 'if-none-match': '"abc"' } })).status).toBe(304);
-		expect((await fetch(`${base}/courses`, { headers: { cookie: 'authjs.session-token=x' } })).status).toBe(299);
-		expect((await fetch(`${base}/courses?x=1`)).status).toBe(299);
-		expect((await fetch(`${base}/courses`, { method: 'HEAD' })).status).toBe(299);
-		expect((await fetch(`${base}/courses`, { headers: { 'accept-language': 'fr-FR' } })).status).toBe(299);
+		expect((await fetch(`${base}/courses`, { headers: { cookie: 'authjs.session-token=x' } })).status).toBe(FELL_THROUGH);
+		expect((await fetch(`${base}/courses?x=1`)).status).toBe(FELL_THROUGH);
+		expect((await fetch(`${base}/courses`, { method: 'HEAD' })).status).toBe(FELL_THROUGH);
+		expect((await fetch(`${base}/courses`, { headers: { 'accept-language': 'fr-FR' } })).status).toBe(FELL_THROUGH);
 		expect(renders).toBe(1);
 	});
 });
