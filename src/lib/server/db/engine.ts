@@ -165,7 +165,8 @@ export function sqliteHandle(db: Kysely<Schema>): Database.Database | null {
  * with stand-in values; each run passes the real ones, in the same order. On a SQLite file the
  * statement is prepared once on the read-only connection (`sqliteReader`); elsewhere (PostgreSQL,
  * an in-memory database, inside a transaction) the compiled text runs through Kysely's driver
- * with the new parameters. For reads only.
+ * with the new parameters. For reads only. Pass the database itself (`getDb()`): the lazy `db`
+ * proxy of `db/index.ts` is not the opened instance, so it would take the slower path.
  */
 export function reusableQuery<Row>(build: (db: Kysely<Schema>) => { compile(): CompiledQuery<Row> }) {
 	const prepared = new WeakMap<Kysely<Schema>, (parameters: readonly unknown[]) => Promise<Row[]>>();
