@@ -16,11 +16,10 @@ declare global {
 			databaseBusy: boolean;
 			/** A lesson body this person may read, put into the page by the `lessonBody` hook (see $lib/server/lesson-html). */
 			lessonBody?: Uint8Array;
+			/** What the finished lesson page is kept under for readers in the same position (see $lib/server/lesson-page-store). */
+			lessonPageKey?: string;
 			/** Set by a load function whose page is the same for every visitor not signed in (see $lib/server/page-cache). */
 			sharedForSeconds?: number;
-		}
-		interface PageData {
-			user?: Identity | null;
 		}
 	}
 }

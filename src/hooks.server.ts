@@ -13,6 +13,7 @@ import { isDatabaseBusy } from '$lib/server/db/errors';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { seedDemo } from '$lib/server/demo-seed';
 import { pageWithBody } from '$lib/server/lesson-html';
+import { storeLessonPage } from '$lib/server/lesson-page-store';
 import { seedDemoPracticals } from '$lib/server/demo-practicals';
 import { issuerKey } from '$lib/server/issuer-key';
 import { startSchedules } from '$lib/server/schedules';
@@ -107,7 +108,8 @@ const identity: Handle = async ({ event, resolve }) => {
  * SvelteKit has finished the page: SvelteKit hashes every whole page it renders for an ETag, and
  * on an 80 KB lesson that hash was a fifth of the request's time. The body is the same for
  * everyone and changes only with a build, and lesson pages are not stored by browsers
- * (no-store when signed in), so the page goes without an ETag.
+ * (no-store when signed in), so the page goes without an ETag. The finished page is kept for
+ * readers in the same position (see lesson-page-store.ts).
  */
 const lessonBody: Handle = async ({ event, resolve }) => {
 	const response = await resolve(event);
@@ -117,6 +119,7 @@ const lessonBody: Handle = async ({ event, resolve }) => {
 	const headers = new Headers(response.headers);
 	headers.delete('etag');
 	headers.set('content-length', String(page.byteLength));
+	storeLessonPage(event.locals.lessonPageKey, response.status, headers, page);
 	return new Response(page, { status: response.status, headers });
 };
 

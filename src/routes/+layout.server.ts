@@ -1,8 +1,4 @@
-import { config } from '$lib/server/config';
+import { viewerOf } from '$lib/server/viewer';
 import type { LayoutServerLoad } from './$types';
 
-export const load: LayoutServerLoad = async ({ locals }) => ({
-	user: locals.user,
-	fakeInboxUrl: config.fakeInboxUrl,
-	fakePaymentsUrl: config.fakePaymentsUrl
-});
+export const load: LayoutServerLoad = async ({ locals }) => viewerOf(locals.user);

@@ -2,14 +2,12 @@ import { recordAudit } from './audit';
 import { issueIfEarned } from './certificates';
 import { db as defaultDb, inTransaction, type DB } from './db';
 
+/** The enrolment row of a person in a course, if any (shared by `isEnrolled` and the lesson view's prepared read). */
+export const enrolmentRow = (db: DB, userId: string, courseSlug: string) =>
+	db.selectFrom('enrolment').select('user_id').where('user_id', '=', userId).where('course_slug', '=', courseSlug);
+
 export async function isEnrolled(userId: string, courseSlug: string, db: DB = defaultDb): Promise<boolean> {
-	const row = await db
-		.selectFrom('enrolment')
-		.select('user_id')
-		.where('user_id', '=', userId)
-		.where('course_slug', '=', courseSlug)
-		.executeTakeFirst();
-	return !!row;
+	return !!(await enrolmentRow(db, userId, courseSlug).executeTakeFirst());
 }
 
 export async function listEnrolments(userId: string, db: DB = defaultDb) {

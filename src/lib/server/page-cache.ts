@@ -40,7 +40,7 @@ const LOCALES_REMEMBERED = 1_000;
 const locales = new Map<string, string>();
 
 /** The reader's locale for an Accept-Language header, remembered per header (browsers send a handful of distinct ones). */
-function localeOf(acceptLanguage: string | null | undefined): string {
+export function localeOf(acceptLanguage: string | null | undefined): string {
 	const header = acceptLanguage ?? '';
 	let locale = locales.get(header);
 	if (locale === undefined) {

@@ -67,13 +67,12 @@ export function summariseProgress(course: Course, completions: Completion[]): Co
 	};
 }
 
+/** A person's completion rows in a course (shared by `listCompletions` and the lesson view's prepared read). */
+export const completionRows = (db: DB, userId: string, courseSlug: string) =>
+	db.selectFrom('lesson_progress').select(['lesson_slug', 'completed_at']).where('user_id', '=', userId).where('course_slug', '=', courseSlug);
+
 export function listCompletions(userId: string, courseSlug: string, db: DB = defaultDb): Promise<Completion[]> {
-	return db
-		.selectFrom('lesson_progress')
-		.select(['lesson_slug', 'completed_at'])
-		.where('user_id', '=', userId)
-		.where('course_slug', '=', courseSlug)
-		.execute();
+	return completionRows(db, userId, courseSlug).execute();
 }
 
 export async function getCourseProgress(userId: string, course: Course, db: DB = defaultDb): Promise<CourseProgress> {
@@ -150,8 +149,8 @@ export async function setLessonDone(
  */
 export type ReadingState = 'enrolled' | 'preview' | 'sign-in' | 'not-enrolled';
 
-export async function readingState(userId: string | null, lesson: Lesson, db: DB = defaultDb): Promise<ReadingState> {
-	if (userId && (await isEnrolled(userId, lesson.courseSlug, db))) return 'enrolled';
+export function readingState(signedIn: boolean, enrolled: boolean, lesson: Lesson): ReadingState {
+	if (enrolled) return 'enrolled';
 	if (lesson.preview) return 'preview';
-	return userId ? 'not-enrolled' : 'sign-in';
+	return signedIn ? 'not-enrolled' : 'sign-in';
 }

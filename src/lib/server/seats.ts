@@ -171,17 +171,19 @@ export async function markSeatInUse(userId: string, courseSlug: string, db: DB =
 	});
 }
 
-async function unusedSeatId(userId: string, courseSlug: string, db: DB): Promise<string | null> {
-	const seat = await db
+/** A person's course seat not yet counted as in use (shared by `markSeatInUse` and the lesson view's prepared read). */
+export const unusedSeatRow = (db: DB, userId: string, courseSlug: string) =>
+	db
 		.selectFrom('seat')
 		.select('id')
 		.where('holder_id', '=', userId)
 		.where('course_slug', '=', courseSlug)
 		.where('product', '=', 'course')
 		.where('refunded_at', 'is', null)
-		.where('used_at', 'is', null)
-		.executeTakeFirst();
-	return seat?.id ?? null;
+		.where('used_at', 'is', null);
+
+async function unusedSeatId(userId: string, courseSlug: string, db: DB): Promise<string | null> {
+	return (await unusedSeatRow(db, userId, courseSlug).executeTakeFirst())?.id ?? null;
 }
 
 export type TakeBackResult = { ok: true } | { ok: false; message: string };

@@ -41,5 +41,5 @@ export const load: PageServerLoad = async (event) => {
 			? listWaitingForOne().then((w) => w.map(({ userId, name, email, courseTitle, missing }) => ({ userId, name, email, courseTitle, missing: { detail: missing.detail } })))
 			: []
 	]);
-	return { standings, companies, desk, practicalQueue, counts, certificates, origin: config.origin, recentChecks, orders, expiring, waiting };
+	return { user, standings, companies, desk, practicalQueue, counts, certificates, origin: config.origin, recentChecks, orders, expiring, waiting };
 };
