@@ -2,11 +2,38 @@ import { sveltekit } from '@sveltejs/kit/vite';
 import tailwindcss from '@tailwindcss/vite';
 import { defineConfig } from 'vitest/config';
 
-export default defineConfig({
+const FRAMEWORK = [
+	/[\\/]node_modules[\\/]svelte[\\/]src[\\/]/,
+	/[\\/]node_modules[\\/]@sveltejs[\\/]kit[\\/]src[\\/](runtime|utils)[\\/]/,
+	/[\\/]node_modules[\\/]devalue[\\/]/,
+	/[\\/]node_modules[\\/]@lucide[\\/]svelte[\\/]dist[\\/](Icon\.svelte|utils[\\/]|defaultAttributes)/,
+	/^\0vite[\\/]preload-helper/
+];
+
+/** The modules every page loads; SvelteKit's client entry stays its own file. */
+function isFramework(id: string): boolean {
+	return !/[\\/]runtime[\\/]client[\\/]entry\.js$/.test(id) && FRAMEWORK.some((pattern) => pattern.test(id));
+}
+
+export default defineConfig(({ isSsrBuild }) => ({
 	plugins: [tailwindcss(), sveltekit()],
 	server: {
 		fs: { allow: ['content', 'migrations'] }
 	},
+	// The client build only: the server's chunks are not sent to anyone.
+	build: isSsrBuild
+		? {}
+		: {
+				rolldownOptions: {
+					output: {
+						codeSplitting: {
+							// Every page loads the framework (Svelte's runtime, SvelteKit's client, the icon base and
+							// the bundler's preload helper): one file instead of several small ones, each with its own headers.
+							groups: [{ name: 'framework', test: isFramework }]
+						}
+					}
+				}
+			},
 	test: {
 		// SCALE_TESTS=1: the two-process test against the built app and a PostgreSQL server (test-all)
 		include: process.env.SCALE_TESTS === '1' ? ['tests/scale/**/*.test.ts'] : ['src/**/*.test.ts', 'tests/unit/**/*.test.ts'],
@@ -18,4 +45,4 @@ export default defineConfig({
 		// the AWS SDK's notice that its 2027 releases will need Node 22 (known; see README)
 		env: { AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' }
 	}
-});
+}));

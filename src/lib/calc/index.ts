@@ -13,12 +13,13 @@ import {
 } from './materials';
 import { endThrustCalculator, groundwaterHeadCalculator, pressureWindowCalculator } from './pressure';
 import { transitionAreaCalculator } from './transition';
-import type { Alert, CalculatorDef, InputSpec, ResultSpec, ResultValue } from './types';
-import { parseInputs } from './validate';
+import { calculateWith, type CalculationFailure, type CalculationSuccess } from './run';
+import type { CalculatorDef, InputSpec, ResultSpec } from './types';
 import { airTestCalculator, waterTestCalculator } from './watertightness';
 
 export type { Alert, CalcOutput, CalculatorDef, InputSpec, Inputs, ResultSpec, ResultValue } from './types';
 export { defaultInputs, parseInputs, rangeMessage } from './validate';
+export type { CalculationFailure, CalculationSuccess } from './run';
 
 const all: CalculatorDef[] = [
 	resinQuantityCalculator,
@@ -38,21 +39,6 @@ const all: CalculatorDef[] = [
 
 export const calculators: Record<string, CalculatorDef> = Object.fromEntries(all.map((c) => [c.id, c]));
 
-export type CalculationSuccess = {
-	ok: true;
-	result: Record<string, ResultValue>;
-	steps: string[];
-	sources: string[];
-	warnings: string[];
-	alerts: Alert[];
-};
-
-export type CalculationFailure = {
-	ok: false;
-	status: 404 | 400;
-	errors: Record<string, string>;
-};
-
 export function getCalculator(id: string): CalculatorDef | undefined {
 	return Object.hasOwn(calculators, id) ? calculators[id] : undefined;
 }
@@ -65,9 +51,7 @@ export function getCalculator(id: string): CalculatorDef | undefined {
 export function runCalculation(id: string, raw: unknown): CalculationSuccess | CalculationFailure {
 	const def = getCalculator(id);
 	if (!def) return { ok: false, status: 404, errors: { id: `Unknown calculator "${id}"` } };
-	const parsed = parseInputs(def, raw);
-	if (!parsed.ok) return { ok: false, status: 400, errors: parsed.errors };
-	return { ok: true, ...def.compute(parsed.inputs) };
+	return calculateWith(def, raw);
 }
 
 export type CalculatorListing = {

@@ -2,8 +2,10 @@
  * Input validation for calculators: zod schemas built from each calculator's InputSpec list.
  * Contract: every failure is a message per field name ('inputs' for the whole object);
  * numbers may arrive as JSON numbers or as numeric strings from forms.
+ * Built with zod's functional build (zod/mini, the same checks as the chainable one) because
+ * the live calculators run this in the browser, where the chainable build would ship with it.
  */
-import { z } from 'zod';
+import * as z from 'zod/mini';
 import type { CalculatorDef, InputSpec, Inputs } from './types';
 import { given, plain } from './worksheet';
 
@@ -35,31 +37,34 @@ function choicesMessage(spec: InputSpec): string {
 }
 
 function fieldSchema(spec: InputSpec) {
-	let schema = z.number({
-		error: (issue) => (issue.input === undefined ? 'Required' : 'Must be a number')
-	});
-	if (spec.integer) schema = schema.int('Must be a whole number');
 	const range = rangeMessage(spec.min, spec.max, spec.unit);
-	schema = schema.min(spec.min, range).max(spec.max, range);
-	const checked = spec.choices
-		? schema.refine((v) => spec.choices!.includes(v), choicesMessage(spec))
-		: schema;
-	return z.preprocess((value) => {
+	// In the order the checks run; the first message for a field is the one shown.
+	const checks: z.core.$ZodCheck<number>[] = [
+		...(spec.integer ? [z.int('Must be a whole number')] : []),
+		z.gte(spec.min, range),
+		z.lte(spec.max, range),
+		...(spec.choices ? [z.refine<number>((v) => spec.choices!.includes(v), choicesMessage(spec))] : [])
+	];
+	const checked = z.number({
+		error: (issue) => (issue.input === undefined ? 'Required' : 'Must be a number')
+	}).check(...checks);
+	const readField = z.transform((value: unknown) => {
 		const n = readNumber(value);
 		return n === undefined && spec.optional ? spec.default : n;
-	}, checked);
+	});
+	return z.pipe(readField, checked);
 }
 
-const schemas = new WeakMap<CalculatorDef, z.ZodType<Inputs>>();
+const schemas = new WeakMap<CalculatorDef, z.ZodMiniType<Inputs>>();
 
-function schemaFor(def: CalculatorDef): z.ZodType<Inputs> {
+function schemaFor(def: CalculatorDef): z.ZodMiniType<Inputs> {
 	let schema = schemas.get(def);
 	if (!schema) {
 		const shape = Object.fromEntries(def.inputs.map((spec) => [spec.name, fieldSchema(spec)]));
 		schema = z.strictObject(shape, {
 			error: (issue) =>
 				issue.code === 'invalid_type' ? 'Must be an object of named numbers' : undefined
-		}) as unknown as z.ZodType<Inputs>;
+		}) as unknown as z.ZodMiniType<Inputs>;
 		schemas.set(def, schema);
 	}
 	return schema;

@@ -18,9 +18,19 @@ export const LESSON_HREF = 'patchwright:lesson-href';
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type AnyComponent = Component<any>;
 
-const islands: Record<string, () => Promise<{ default: AnyComponent }>> = {
-	calculator: () => import('$lib/components/calc/Calculator.svelte'),
-	'check-yourself': () => import('./CheckYourselfQuestion.svelte')
+type IslandProps = Record<string, unknown>;
+
+/** Each island's component with the props it mounts with, or undefined to keep the server's markup. */
+const islands: Record<string, (props: IslandProps) => Promise<{ component: AnyComponent; props: IslandProps } | undefined>> = {
+	// The calculator's definition (code, not JSON) is loaded beside the component: only its own module ships.
+	calculator: async (props) => {
+		const [{ default: component }, calculator] = await Promise.all([
+			import('$lib/components/calc/Calculator.svelte'),
+			import('$lib/calc/load').then(({ loadCalculator }) => loadCalculator(String(props.id)))
+		]);
+		return calculator && { component, props: { ...props, calculator } };
+	},
+	'check-yourself': async (props) => ({ component: (await import('./CheckYourselfQuestion.svelte')).default, props })
 };
 
 export type IslandName = keyof typeof islands;
@@ -36,11 +46,11 @@ export function mountIslands(root: HTMLElement): () => void {
 		const name = element.dataset.island ?? '';
 		if (!Object.hasOwn(islands, name)) continue;
 		const props = JSON.parse(element.dataset.props ?? '{}');
-		islands[name]().then(({ default: component }) => {
-			if (stopped) return;
+		islands[name](props).then((island) => {
+			if (stopped || !island) return;
 			// The server's markup is replaced in one step, so the reader sees no change.
 			element.replaceChildren();
-			mounted.push(mount(component, { target: element, props }));
+			mounted.push(mount(island.component, { target: element, props: island.props }));
 		});
 	}
 	return () => {

@@ -1,8 +1,9 @@
 import { error } from '@sveltejs/kit';
-import { getCalculator } from '$lib/calc';
+import { loadCalculator } from '$lib/calc/load';
 
-export function load({ params }) {
-	const calc = getCalculator(params.id);
-	if (!calc) error(404, 'No such calculator');
-	return { id: calc.id, title: calc.title, summary: calc.summary };
+/** A universal load: the calculator's code runs in the browser too, so it works with no signal. */
+export async function load({ params }) {
+	const calculator = await loadCalculator(params.id);
+	if (!calculator) error(404, 'No such calculator');
+	return { calculator, id: calculator.id, title: calculator.title, summary: calculator.summary };
 }
