@@ -100,7 +100,7 @@ describe('the lesson page store', () => {
 		const outsider = await signedIn('Outsider', { enrolled: false });
 		await store(CLOSED, dee.user, 'enrolled page');
 		// not enrolled, a visitor, a forged cookie: SvelteKit answers (403, sign in)
-		for (const headers of [{ cookie: outsider.cookie }, {}, { cookie: 'authjs.session-token=forged' }]) {
+		for (const headers of [{ cookie: outsider.cookie }, {}, { cookie: 'authjs.session-token=forged' }] as Record<string, string>[]) {
 			expect((await get(CLOSED, headers)).status).toBe(FELL_THROUGH);
 		}
 		await endSession(dee.sessionId, 'sign-out', getDb());

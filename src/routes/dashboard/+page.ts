@@ -4,9 +4,8 @@ import type { PageLoad } from './$types';
  * The staff and company sections are imported only for the people who see them, so a
  * trainee's dashboard ships none of their code. The page shows a section when it is here.
  */
-export const load: PageLoad = async ({ data, parent }) => {
-	const { user } = await parent();
-	const has = (role: string) => user?.roles.includes(role as never) ?? false;
+export const load: PageLoad = async ({ data }) => {
+	const has = (role: string) => data.user.roles.includes(role as never);
 	const [trainerDesk, companyCrew, seatsPanel, inspectorDesk, registrarDesk] = await Promise.all([
 		has('trainer') && data.desk ? import('$lib/components/dashboard/TrainerDesk.svelte') : null,
 		data.companies.length ? import('$lib/components/dashboard/CompanyCrew.svelte') : null,
