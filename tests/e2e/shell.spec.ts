@@ -37,6 +37,8 @@ test('at phone width every dashboard is usable and the menu opens', async ({ pag
 		await signInWithPassword(page, email);
 		const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 		expect(overflow, `${role} dashboard scrolls sideways`).toBeLessThanOrEqual(0);
+		// the line under the greeting keeps its spaces: "Signed in as <e-mail> · <roles>"
+		await expect(page.getByText(`Signed in as ${email}`)).not.toContainText(`${email}·`);
 		await page.screenshot({ path: `tests/.artifacts/screens/dashboard-${role}-360.png`, fullPage: true });
 		await page.getByRole('button', { name: 'Menu' }).click();
 		await page.locator('#mobile-menu').getByRole('button', { name: 'Sign out' }).click();
