@@ -37,7 +37,11 @@ export interface Target {
 	method?: 'GET' | 'POST';
 	body?: string;
 	signedIn?: boolean;
+	/** A page: sent with the Accept and Accept-Encoding a browser sends (every browser takes gzip). */
+	page?: boolean;
 }
+
+const BROWSER_HEADERS = { accept: 'text/html,application/xhtml+xml', 'accept-encoding': 'gzip, deflate, br, zstd' };
 
 export interface LoadResult {
 	name: string;
@@ -162,6 +166,7 @@ export function load(url: string, target: Target, cookie: string | null, seconds
 	const cpuBefore = cpuSeconds(serverPid);
 	if (target.body) headers['content-type'] = 'application/json';
 	if (target.signedIn && cookie) headers.cookie = cookie;
+	if (target.page) Object.assign(headers, BROWSER_HEADERS);
 	return new Promise((resolve, reject) => {
 		autocannon(
 			{ url: url + target.path, method: target.method ?? 'GET', body: target.body, headers, connections: CONNECTIONS, duration: seconds },
@@ -207,8 +212,8 @@ export function appTargets(): Target[] {
 		{ name: 'GET /api/v1/health', path: '/api/v1/health' },
 		{ name: `POST /api/v1/calculations/${calc.id}`, path: `/api/v1/calculations/${calc.id}`, method: 'POST', body: JSON.stringify({ inputs: defaultInputs(calc) }) },
 		{ name: `GET /api/v1/practice/${generator}?seed=7`, path: `/api/v1/practice/${generator}?seed=7` },
-		{ name: 'GET /courses (catalogue)', path: '/courses' },
-		{ name: `GET ${SIGNED_IN_LESSON} (signed in)`, path: SIGNED_IN_LESSON, signedIn: true },
+		{ name: 'GET /courses (catalogue)', path: '/courses', page: true },
+		{ name: `GET ${SIGNED_IN_LESSON} (signed in)`, path: SIGNED_IN_LESSON, signedIn: true, page: true },
 		{ name: 'GET /api/v1/me (signed in)', path: '/api/v1/me', signedIn: true },
 		{ name: 'GET /api/v1/health (signed in)', path: '/api/v1/health', signedIn: true }
 	];
@@ -231,6 +236,7 @@ function printLoad(rows: PairedResult[]) {
 	console.log('on the same machine, and "vs bare" is the ratio of the two: other load on the machine weighs on both.');
 	console.log('"CPU µs" is the server\'s CPU time per answer (from /proc); "by CPU" is bare CPU per answer over the app\'s,');
 	console.log('the share of the bare server\'s rate the app would reach on an idle core, which other load disturbs far less.');
+	console.log('Pages are asked for as a browser asks (Accept-Encoding: gzip, deflate, br, zstd).');
 	console.log(
 		`${'target'.padEnd(width)}  ${'req/s'.padStart(8)}  ${'p50 ms'.padStart(7)}  ${'p99 ms'.padStart(7)}  ${'errors'.padStart(6)}  ${'non-2xx'.padStart(7)}  ${'429'.padStart(5)}  ${'bare req/s'.padStart(10)}  ${'bare p99'.padStart(8)}  ${'vs bare'.padStart(7)}  ${'CPU µs'.padStart(7)}  ${'bare CPU'.padStart(8)}  ${'by CPU'.padStart(7)}`
 	);

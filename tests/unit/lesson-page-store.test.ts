@@ -1,9 +1,11 @@
 import http from 'node:http';
+import { gunzipSync } from 'node:zlib';
 import { encode } from '@auth/core/jwt';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { getDb } from '$lib/server/db';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { enrol } from '$lib/server/enrolments';
+import { acceptsGzip } from '$lib/server/compression';
 import { clearLessonPages, fastLesson, lessonPageKey, storeLessonPage } from '$lib/server/lesson-page-store';
 import { lessonView, type LessonPageData } from '$lib/server/lesson-view';
 import { setLessonDone } from '$lib/server/progress';
@@ -56,12 +58,15 @@ async function store(path: string, user: Identity | null, text: string, acceptLa
 	return view.data;
 }
 
-function get(path: string, headers: Record<string, string> = {}, method = 'GET'): Promise<{ status: number; headers: http.IncomingHttpHeaders; text: string }> {
+function get(path: string, headers: Record<string, string> = {}, method = 'GET'): Promise<{ status: number; headers: http.IncomingHttpHeaders; text: string; bytes: Buffer }> {
 	return new Promise((resolve, reject) => {
 		const req = http.request(`${front.base}${path}`, { method, headers }, (res) => {
 			const chunks: Buffer[] = [];
 			res.on('data', (c) => chunks.push(c));
-			res.on('end', () => resolve({ status: res.statusCode!, headers: res.headers, text: Buffer.concat(chunks).toString('utf8') }));
+			res.on('end', () => {
+				const bytes = Buffer.concat(chunks);
+				resolve({ status: res.statusCode!, headers: res.headers, text: bytes.toString('utf8'), bytes });
+			});
 		});
 		req.on('error', reject);
 		req.end();
@@ -132,6 +137,35 @@ describe('the lesson page store', () => {
 		}
 		expect((await get(PREVIEW, { 'accept-language': 'de-DE,de;q=0.9' }, 'HEAD')).status).toBe(FELL_THROUGH);
 		expect((await get(PREVIEW, { 'accept-language': 'de-DE,de;q=0.9' }, 'POST')).status).toBe(FELL_THROUGH);
+	});
+
+	it('sends the page gzipped to a browser that takes gzip, as it is to one that does not', async () => {
+		const ivy = await signedIn('Ivy');
+		const page = 'a lesson page '.repeat(500);
+		await store(CLOSED, ivy.user, page);
+		const zipped = await get(CLOSED, { cookie: ivy.cookie, 'accept-encoding': 'gzip, deflate, br, zstd' });
+		expect(zipped.headers['content-encoding']).toBe('gzip');
+		expect(zipped.headers.vary).toBe('Accept-Encoding');
+		expect(Number(zipped.headers['content-length'])).toBe(zipped.bytes.byteLength);
+		expect(zipped.bytes.byteLength).toBeLessThan(page.length / 10);
+		expect(gunzipSync(zipped.bytes).toString('utf8')).toBe(page); // node:zlib as the browser's decoder
+		for (const acceptEncoding of ['gzip;q=0, br', 'identity']) {
+			const plain = await get(CLOSED, { cookie: ivy.cookie, 'accept-encoding': acceptEncoding });
+			expect(plain.headers['content-encoding']).toBeUndefined();
+			expect(plain.text).toBe(page);
+			expect(Number(plain.headers['content-length'])).toBe(page.length);
+		}
+	});
+
+	it('reads Accept-Encoding as RFC 9110 says: q=0 refuses, * accepts', () => {
+		expect(acceptsGzip('gzip, deflate, br')).toBe(true);
+		expect(acceptsGzip('br;q=1, gzip;q=0.5')).toBe(true);
+		expect(acceptsGzip('*')).toBe(true);
+		expect(acceptsGzip('gzip;q=0')).toBe(false);
+		expect(acceptsGzip('*;q=0')).toBe(false);
+		expect(acceptsGzip('br')).toBe(false);
+		expect(acceptsGzip('')).toBe(false);
+		expect(acceptsGzip(undefined)).toBe(false);
 	});
 
 	it('keeps only a plain 200 that sets no cookie', async () => {

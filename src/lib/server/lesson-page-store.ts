@@ -3,6 +3,7 @@ import { parse as parseCookies } from 'cookie';
 import type { RequestEvent } from '@sveltejs/kit';
 import type { Identity } from '$lib/roles';
 import { authSecret } from './auth';
+import { acceptsGzip, gzipOnce } from './compression';
 import { lessonView, type LessonPageData } from './lesson-view';
 import { localeOf } from './page-cache';
 import { SECURITY_HEADERS, NO_STORE } from './security-headers';
@@ -22,7 +23,8 @@ import { viewerOf } from './viewer';
  * page before SvelteKit builds a Request: it runs the same checks (`whoIsAsking`, `lessonView`)
  * and steps aside whenever SvelteKit has something to do (no stored page, a seat to count as
  * used, a refusal, a session that is not open). Entries live KEEP_MS at most and the newest
- * MAX_ENTRIES are kept (a page is about 80 KB).
+ * MAX_ENTRIES are kept (a page is about 80 KB, and a fifth of that again gzipped, which is what
+ * a browser gets from the front door).
  */
 
 const MAX_ENTRIES = 200;
@@ -30,6 +32,8 @@ const KEEP_MS = 5 * 60_000;
 
 export interface StoredPage {
 	bytes: Uint8Array;
+	/** The same page gzipped once, for readers whose browser takes it (all of them do). */
+	gzipped: Uint8Array;
 	headers: [string, string][];
 	until: number;
 }
@@ -52,7 +56,7 @@ export function storeLessonPage(key: string | undefined, status: number, headers
 	if (!key || status !== 200 || headers.has('set-cookie')) return;
 	entries.delete(key);
 	if (entries.size >= MAX_ENTRIES) entries.delete(entries.keys().next().value!);
-	entries.set(key, { bytes, headers: [...headers], until: Date.now() + KEEP_MS });
+	entries.set(key, { bytes, gzipped: gzipOnce(bytes), headers: [...headers].filter(([name]) => name !== 'content-length'), until: Date.now() + KEEP_MS });
 }
 
 function storedPage(key: string): StoredPage | null {
@@ -89,10 +93,15 @@ async function answerStored(req: IncomingMessage, res: ServerResponse, courseSlu
 	if (view.kind !== 'page' || view.markSeat) return false;
 	const stored = storedPage(lessonPageKey(req.url!, req.headers['accept-language'], user, view.data));
 	if (!stored) return false;
+	const gzip = acceptsGzip(req.headers['accept-encoding']);
+	const body = gzip ? stored.gzipped : stored.bytes;
 	res.statusCode = 200;
 	for (const [name, value] of [...stored.headers, ...SECURITY_HEADERS]) res.setHeader(name, value);
 	if (user) res.setHeader(...NO_STORE);
-	res.end(stored.bytes);
+	if (gzip) res.setHeader('Content-Encoding', 'gzip');
+	res.setHeader('Vary', 'Accept-Encoding');
+	res.setHeader('Content-Length', body.byteLength);
+	res.end(body);
 	return true;
 }
 
