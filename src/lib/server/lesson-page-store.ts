@@ -40,7 +40,7 @@ export interface StoredPage {
 
 const entries = new Map<string, StoredPage>();
 
-/** The page's key, or null for a request that is not a plain GET of the bare path. */
+/** The key of a lesson page: everything it is rendered from (see above). */
 export function lessonPageKey(pathname: string, acceptLanguage: string | null | undefined, user: Identity | null, data: LessonPageData): string {
 	return `${pathname}\n${localeOf(acceptLanguage)}\n${JSON.stringify(viewerOf(user))}\n${JSON.stringify(data)}`;
 }
@@ -51,9 +51,13 @@ export function rememberLessonPage(event: Pick<RequestEvent, 'locals' | 'request
 	event.locals.lessonPageKey = lessonPageKey(event.url.pathname, event.request.headers.get('accept-language'), event.locals.user, data);
 }
 
-/** Called by the `lessonBody` hook with the finished page; stores a plain 200 that sets no cookie. */
+/**
+ * Called by the `lessonBody` hook with the finished page; stores a plain 200 that sets no cookie.
+ * A page still kept under its key is the same page, so it is neither replaced nor gzipped again
+ * (the case for every render under `vite dev`, where there is no front door).
+ */
 export function storeLessonPage(key: string | undefined, status: number, headers: Headers, bytes: Uint8Array): void {
-	if (!key || status !== 200 || headers.has('set-cookie')) return;
+	if (!key || status !== 200 || headers.has('set-cookie') || storedPage(key)) return;
 	entries.delete(key);
 	if (entries.size >= MAX_ENTRIES) entries.delete(entries.keys().next().value!);
 	entries.set(key, { bytes, gzipped: gzipOnce(bytes), headers: [...headers].filter(([name]) => name !== 'content-length'), until: Date.now() + KEEP_MS });
