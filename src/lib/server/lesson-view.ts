@@ -1,4 +1,4 @@
-import { getCourse, getLesson } from '$lib/content';
+import { getCourse, getLesson, type Lesson } from '$lib/content';
 import { hasRole, type Identity } from '$lib/roles';
 import { getDb, type DB } from './db';
 import { reusableQuery } from './db/engine';
@@ -29,7 +29,7 @@ export type LessonView =
 	| { kind: 'sign-in' }
 	| { kind: 'not-enrolled'; courseTitle: string }
 	/** `markSeat`: this reader's seat is not yet counted as in use, and opening this lesson counts it. */
-	| { kind: 'page'; data: LessonPageData; markSeat: boolean };
+	| { kind: 'page'; lesson: Lesson; data: LessonPageData; markSeat: boolean };
 
 // A lesson page is the most read page there is: its three reads are built once and prepared on
 // the read-only connection (committed rows only, so never inside a transaction).
@@ -59,6 +59,7 @@ export async function lessonView(user: Identity | null, courseSlug: string, less
 	]);
 	return {
 		kind: 'page',
+		lesson,
 		markSeat,
 		data: {
 			course: { slug: course.slug, title: course.title, code: course.code },

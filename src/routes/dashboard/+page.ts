@@ -1,3 +1,4 @@
+import { hasRole } from '$lib/roles';
 import type { PageLoad } from './$types';
 
 /**
@@ -5,7 +6,7 @@ import type { PageLoad } from './$types';
  * trainee's dashboard ships none of their code. The page shows a section when it is here.
  */
 export const load: PageLoad = async ({ data }) => {
-	const has = (role: string) => data.user.roles.includes(role as never);
+	const has = (role: Parameters<typeof hasRole>[1]) => hasRole(data.user, role);
 	const [trainerDesk, companyCrew, seatsPanel, inspectorDesk, registrarDesk] = await Promise.all([
 		has('trainer') && data.desk ? import('$lib/components/dashboard/TrainerDesk.svelte') : null,
 		data.companies.length ? import('$lib/components/dashboard/CompanyCrew.svelte') : null,

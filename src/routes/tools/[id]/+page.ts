@@ -5,5 +5,5 @@ import { loadCalculator } from '$lib/calc/load';
 export async function load({ params }) {
 	const calculator = await loadCalculator(params.id);
 	if (!calculator) error(404, 'No such calculator');
-	return { calculator, id: calculator.id, title: calculator.title, summary: calculator.summary };
+	return { calculator };
 }

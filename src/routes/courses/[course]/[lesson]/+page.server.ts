@@ -1,5 +1,4 @@
 import { error } from '@sveltejs/kit';
-import { getLesson } from '$lib/content';
 import { requireUser } from '$lib/server/authz';
 import { lessonHtml } from '$lib/server/lesson-html';
 import { lessonView } from '$lib/server/lesson-view';
@@ -21,7 +20,7 @@ export const load: PageServerLoad = async (event) => {
 		error(401, 'Sign in first.');
 	}
 
-	const body = await lessonHtml(getLesson(params.course, params.lesson)!);
+	const body = await lessonHtml(view.lesson);
 	if (view.markSeat) await markSeatInUse(locals.user!.id, params.course);
 	// A full page gets the body from the lessonBody hook; client-side navigation gets it here.
 	if (!event.isDataRequest) {
