@@ -10,6 +10,11 @@ const FRAMEWORK = [
 	/^\0vite[\\/]preload-helper/
 ];
 
+const ICONS = /[\\/]@lucide[\\/]svelte[\\/]dist[\\/]icons[\\/]/;
+const UNITS = /[\\/]src[\\/]lib[\\/]calc[\\/]units\.ts$/;
+/** What every calculator shows with (its own module and picture load on demand). */
+const CALCULATOR = /[\\/]src[\\/]lib[\\/](calc[\\/](display|fields|run|load|sources|worksheet)\.ts|components[\\/]calc[\\/](Calculator\.svelte|pictures\.ts))$/;
+
 /** The modules every page loads; SvelteKit's client entry stays its own file. */
 function isFramework(id: string): boolean {
 	return !/[\\/]runtime[\\/]client[\\/]entry\.js$/.test(id) && FRAMEWORK.some((pattern) => pattern.test(id));
@@ -29,7 +34,15 @@ export default defineConfig(({ isSsrBuild }) => ({
 						codeSplitting: {
 							// Every page loads the framework (Svelte's runtime, SvelteKit's client, the icon base and
 							// the bundler's preload helper): one file instead of several small ones, each with its own headers.
-							groups: [{ name: 'framework', test: isFramework }]
+							// A calculator's shared parts travel together, loaded only where a calculator is shown; the
+							// units stay apart because the practical sign-off forms use them too. Icons are bundled
+							// by the pages that use them, small bundles merged into a neighbour.
+							groups: [
+								{ name: 'framework', test: isFramework, priority: 4 },
+								{ name: 'icons', test: ICONS, entriesAware: true, entriesAwareMergeThreshold: 2000, priority: 3 },
+								{ name: 'units', test: UNITS, priority: 2 },
+								{ name: 'calculator', test: CALCULATOR, priority: 1 }
+							]
 						}
 					}
 				}

@@ -9,7 +9,7 @@
 import { chromium } from '@playwright/test';
 
 /** @typedef {{ name: string, requests: number, js: number, css: number, fonts: number, total: number }} PageWeight */
-/** @typedef {{ name: string, path: string, signedIn?: boolean }} PageCase */
+/** @typedef {{ name: string, path: string, signedIn?: boolean, readToEnd?: boolean }} PageCase */
 
 /** @type {PageCase[]} */
 const PAGES = [
@@ -18,6 +18,8 @@ const PAGES = [
 	{ name: 'course', path: '/courses/point-repair-installer' },
 	{ name: 'preview lesson, math', path: '/courses/point-repair-installer/the-job-and-defects' },
 	{ name: 'lesson with math + calculator (signed in)', path: '/courses/point-repair-installer/resin-quantity', signedIn: true },
+	// Lesson islands load as they come near the screen: the same lesson scrolled to its end counts them all.
+	{ name: 'the same lesson, read to the end', path: '/courses/point-repair-installer/resin-quantity', signedIn: true, readToEnd: true },
 	{ name: 'lesson without math (signed in)', path: '/courses/point-repair-installer/safety-first', signedIn: true },
 	{ name: 'calculator tool', path: '/tools/resin-quantity' },
 	{ name: 'dashboard (signed in)', path: '/dashboard', signedIn: true }
@@ -50,6 +52,7 @@ async function weigh(page, baseUrl, c) {
 	page.on('requestfinished', onFinished);
 	const response = await page.goto(baseUrl + c.path, { waitUntil: 'networkidle' });
 	if (!response?.ok()) throw new Error(`${c.path}: HTTP ${response?.status()}`);
+	if (c.readToEnd) await readToEnd(page);
 	page.off('requestfinished', onFinished);
 	const weight = { name: `${c.name} ${c.path}`, requests: seen.length, js: 0, css: 0, fonts: 0, total: 0 };
 	for (const { kind, bytes } of await Promise.all(seen)) {
@@ -57,6 +60,21 @@ async function weigh(page, baseUrl, c) {
 		weight.total += bytes;
 	}
 	return weight;
+}
+
+/**
+ * Scrolls a page down a screen at a time, as a reader would, until its calculators are live
+ * and nothing more loads.
+ * @param {import('@playwright/test').Page} page
+ */
+async function readToEnd(page) {
+	for (let y = 0; y < (await page.evaluate(() => document.body.scrollHeight)); y += 600) {
+		await page.evaluate((top) => window.scrollTo(0, top), y);
+		await page.waitForTimeout(50);
+	}
+	await page.waitForFunction(() => [...document.querySelectorAll('[data-calculator]')].every((c) => c.getAttribute('data-live') === 'true'));
+	await page.waitForLoadState('networkidle');
+	await page.waitForTimeout(500);
 }
 
 /** @param {string} baseUrl @param {{ email: string, password: string }} person */

@@ -61,7 +61,12 @@ test('a trainee opens a course, reads a lesson, uses its calculator, marks it do
 
 	// The lesson's calculator starts from its worked example: DN150, 600 mm, 3 plies of
 	// 1000 g/m², ratio 2.0, 15 % waste = 1.95 kg; twice the length, twice the resin (hand-worked).
+	// Islands load as they come within a screen of view: the calculator, three screens down, is
+	// the server's markup until the reader scrolls towards it.
 	const calculator = page.locator('[data-calculator="resin-quantity"]').first();
+	await expect(page.getByRole('button', { name: 'Mark as done' })).toBeVisible();
+	await expect(calculator).toHaveAttribute('data-live', 'false');
+	await calculator.scrollIntoViewIfNeeded();
 	await expect(calculator).toHaveAttribute('data-live', 'true');
 	const withWaste = calculator.locator('[data-result="resinWithWasteKg"]');
 	await expect(withWaste).toHaveText('1.95 kg');
@@ -253,4 +258,16 @@ test('the catalogue is shared by visitors, never shown to a signed-in person as 
 	await expect(page.getByRole('heading', { level: 1 })).toBeVisible();
 	expect(errors).toEqual([]);
 	await visitor.dispose();
+});
+
+test('a calculator in a lesson draws its picture once the reader scrolls to it', async ({ page }) => {
+	// A trainee enrolled in every course.
+	await signInRequest(page.request, 'ade@tarnside.test');
+	await page.goto('/courses/transition-patches/sizing-the-taper');
+	const calculator = page.locator('[data-calculator="transition-area"]').first();
+	// The server's markup already holds the picture, for a reader without scripts.
+	await expect(calculator.getByRole('img', { name: /^Side section of the taper/ })).toHaveCount(1);
+	await calculator.scrollIntoViewIfNeeded();
+	await expect(calculator).toHaveAttribute('data-live', 'true');
+	await expect(calculator.getByRole('img', { name: /^Flat pattern of one ply/ })).toBeVisible();
 });

@@ -84,7 +84,15 @@ async function smallLabels(page: Page): Promise<string[]> {
 }
 
 async function settle(page: Page) {
+	// Lesson islands (calculators with their pictures) mount as they come near the screen: read
+	// down the page a screen at a time, as a reader does, so each is measured as it is seen.
+	const height = await page.evaluate(() => document.body.scrollHeight);
+	for (let y = PHONE.height; y < height; y += PHONE.height) {
+		await page.evaluate((top) => window.scrollTo(0, top), y);
+		await page.waitForTimeout(20);
+	}
 	await page.waitForLoadState('networkidle');
+	await expect(page.locator('[data-calculator][data-live="false"]')).toHaveCount(0);
 	// Pictures fit their labels once the page runs in the browser.
 	await page.evaluate(() => new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve))));
 }

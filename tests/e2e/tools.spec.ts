@@ -58,3 +58,32 @@ test.describe('resin quantity calculator', () => {
 		);
 	});
 });
+
+/** Pictures load only with the calculators that draw them, and are in the page before any script runs. */
+test.describe('calculator pictures', () => {
+	test('the pressure window is drawn in the server page and follows the inputs', async ({ page }) => {
+		const html = await (await page.request.get('/tools/pressure-window')).text();
+		expect(html).toContain('<title id="');
+		expect(html).toMatch(/<svg[^>]*role="img"[\s\S]*?>Pressure window<\/title>/);
+
+		await openCalculator(page, 'pressure-window');
+		const bar = page.getByRole('img', { name: /^Pressure window/ });
+		await expect(bar).toBeVisible();
+		// Defaults: 3 m of water (0.29 bar), a 0.3 bar margin and a 2.5 bar rating: a window exists.
+		await expect(bar).toHaveAccessibleName(/inflate between/);
+		// A rating below the head plus margin leaves no window, and the picture says so.
+		await page.getByLabel(/rated maximum/).fill('0.4');
+		await expect(bar).toHaveAccessibleName(/there is no window/);
+	});
+
+	test('a calculator without a picture loads no picture code', async ({ page }) => {
+		const scripts: string[] = [];
+		page.on('response', async (response) => {
+			if (response.request().resourceType() === 'script') scripts.push(await response.text());
+		});
+		await openCalculator(page, 'resin-quantity');
+		await page.waitForLoadState('networkidle');
+		expect(scripts.some((code) => code.includes('Pressure window'))).toBe(false);
+		expect(scripts.some((code) => code.includes('Side section of the taper'))).toBe(false);
+	});
+});

@@ -5,7 +5,7 @@
  */
 import type { CalculatorDef, InputSpec, ResultValue } from './types';
 import { convert, displayUnit, quantityOf, systemOf, type UnitSystem } from './units';
-import { isNumericText, rangeMessage } from './validate';
+import { isNumericText, rangeMessage } from './fields';
 import { num, plain } from './worksheet';
 
 /** The unit a field is typed in. Choice fields keep their own unit: their values are fixed. */

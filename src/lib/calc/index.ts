@@ -13,12 +13,14 @@ import {
 } from './materials';
 import { endThrustCalculator, groundwaterHeadCalculator, pressureWindowCalculator } from './pressure';
 import { transitionAreaCalculator } from './transition';
-import { calculateWith, type CalculationFailure, type CalculationSuccess } from './run';
+import { computeChecked, type CalculationFailure, type CalculationSuccess } from './run';
 import type { CalculatorDef, InputSpec, ResultSpec } from './types';
+import { parseInputs } from './validate';
 import { airTestCalculator, waterTestCalculator } from './watertightness';
 
 export type { Alert, CalcOutput, CalculatorDef, InputSpec, Inputs, ResultSpec, ResultValue } from './types';
-export { defaultInputs, parseInputs, rangeMessage } from './validate';
+export { defaultInputs, rangeMessage } from './fields';
+export { parseInputs } from './validate';
 export type { CalculationFailure, CalculationSuccess } from './run';
 
 const all: CalculatorDef[] = [
@@ -51,7 +53,7 @@ export function getCalculator(id: string): CalculatorDef | undefined {
 export function runCalculation(id: string, raw: unknown): CalculationSuccess | CalculationFailure {
 	const def = getCalculator(id);
 	if (!def) return { ok: false, status: 404, errors: { id: `Unknown calculator "${id}"` } };
-	return calculateWith(def, raw);
+	return computeChecked(def, parseInputs(def, raw));
 }
 
 export type CalculatorListing = {

@@ -1,9 +1,9 @@
 /**
- * Validating and computing with one calculator's definition: the single path the API, the
- * practice problems and the browser's live calculators all take.
+ * Computing with one calculator's definition once its inputs are checked: the single path the
+ * API, the practice problems and the browser's live calculators all take.
  */
+import type { ParsedInputs } from './fields';
 import type { CalcOutput, CalculatorDef } from './types';
-import { parseInputs } from './validate';
 
 export type CalculationSuccess = { ok: true } & CalcOutput;
 
@@ -13,9 +13,9 @@ export type CalculationFailure = {
 	errors: Record<string, string>;
 };
 
-/** Missing, non-numeric, out-of-range or inconsistent inputs -> 400 with a message per field. */
-export function calculateWith(def: CalculatorDef, raw: unknown): CalculationSuccess | CalculationFailure {
-	const parsed = parseInputs(def, raw);
+/** Inputs that did not pass -> 400 with a message per field; otherwise the calculation. */
+export function computeChecked(def: CalculatorDef, parsed: ParsedInputs): CalculationSuccess | CalculationFailure {
 	if (!parsed.ok) return { ok: false, status: 400, errors: parsed.errors };
 	return { ok: true, ...def.compute(parsed.inputs) };
 }
+

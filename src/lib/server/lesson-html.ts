@@ -1,7 +1,8 @@
 import type { Component } from 'svelte';
 import { render } from 'svelte/server';
 import type { Lesson } from '$lib/content';
-import { LESSON_HREF, LESSON_BODY_SLOT } from '$lib/components/lesson/islands';
+import { allPictures } from '$lib/components/calc/pictures';
+import { LESSON_HREF, LESSON_BODY_SLOT, LESSON_PICTURES } from '$lib/components/lesson/islands';
 
 /**
  * Lesson bodies as HTML, rendered on the server only. The compiled lessons are imported here
@@ -30,8 +31,12 @@ const encoder = new TextEncoder();
 async function renderLesson(lesson: Lesson): Promise<LessonHtml> {
 	const load = bodies[`/content/courses/${lesson.courseSlug}/lessons/${lesson.slug}.md`];
 	if (!load) throw new Error(`No lesson file for ${lesson.href}`);
-	const Body = (await load()).default;
-	const { body } = render(Body, { context: new Map([[LESSON_HREF, lesson.href]]), idPrefix: `${lesson.slug}-` });
+	const [{ default: Body }, pictures] = await Promise.all([load(), allPictures()]);
+	const context = new Map<string, unknown>([
+		[LESSON_HREF, lesson.href],
+		[LESSON_PICTURES, pictures]
+	]);
+	const { body } = render(Body, { context, idPrefix: `${lesson.slug}-` });
 	// Svelte's hydration markers are comments; the body is static HTML (islands mount afresh), and
 	// an empty comment inside `{@html}` would end the block early when the page hydrates.
 	const html = body.replace(/<!--[\s\S]*?-->/g, '');

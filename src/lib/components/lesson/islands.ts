@@ -6,7 +6,8 @@ import { mount, unmount, type Component } from 'svelte';
  * lesson text sits in a public client file. The parts that answer the reader (live
  * calculators, check-yourself questions) are islands: the server renders them inside a
  * `<div data-island="name" data-props="{...}">`, and in the browser `mountIslands` mounts the
- * interactive component there with the same props. Only these components' code ships.
+ * interactive component there with the same props once it comes near the screen. Only these
+ * components' code ships, and only for the islands a reader scrolls towards.
  */
 
 /** Where the server puts the lesson body in a fully rendered page (see $lib/server/lesson-html). */
@@ -15,6 +16,9 @@ export const LESSON_BODY_SLOT = '<!--lesson-body-->';
 /** Context key under which the lesson renderer passes the lesson's own path to its islands. */
 export const LESSON_HREF = 'patchwright:lesson-href';
 
+/** Context key under which the lesson renderer passes the calculators' pictures (see allPictures). */
+export const LESSON_PICTURES = 'patchwright:lesson-pictures';
+
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type AnyComponent = Component<any>;
 
@@ -22,29 +26,38 @@ type IslandProps = Record<string, unknown>;
 
 /** Each island's component with the props it mounts with, or undefined to keep the server's markup. */
 const islands: Record<string, (props: IslandProps) => Promise<{ component: AnyComponent; props: IslandProps } | undefined>> = {
-	// The calculator's definition (code, not JSON) is loaded beside the component: only its own module ships.
+	// The calculator's definition (code, not JSON) and its picture, if it draws one, are loaded beside
+	// the component: only their own modules ship.
 	calculator: async (props) => {
-		const [{ default: component }, calculator] = await Promise.all([
+		const id = String(props.id);
+		const [{ default: component }, calculator, picture] = await Promise.all([
 			import('$lib/components/calc/Calculator.svelte'),
-			import('$lib/calc/load').then(({ loadCalculator }) => loadCalculator(String(props.id)))
+			import('$lib/calc/load').then(({ loadCalculator }) => loadCalculator(id)),
+			import('$lib/components/calc/pictures').then(({ loadPicture }) => loadPicture(id))
 		]);
-		return calculator && { component, props: { ...props, calculator } };
+		return calculator && { component, props: { ...props, calculator, picture } };
 	},
 	'check-yourself': async (props) => ({ component: (await import('./CheckYourselfQuestion.svelte')).default, props })
 };
 
 export type IslandName = keyof typeof islands;
 
-/** Mounts every island under `root`; returns a function that unmounts them. */
+/**
+ * How far beyond the screen an island starts loading: one screen's height, so its code has
+ * arrived by the time the reader scrolls to it, and a reader who stops early never loads it.
+ */
+const LOAD_AHEAD = '100% 0px';
+
+/** Mounts every island under `root` as it comes within a screen of view; returns a function that unmounts them. */
 export function mountIslands(root: HTMLElement): () => void {
 	const mounted: ReturnType<typeof mount>[] = [];
 	let stopped = false;
 	// Diagrams stay server HTML (never hydrated), so their labels are fitted here; pictures
 	// inside islands fit their own once mounted.
 	const fitted = [...root.querySelectorAll<SVGSVGElement>('svg')].filter((svg) => !svg.closest('[data-island]') && svg.querySelector('text')).map((svg) => fitLabels(svg));
-	for (const element of root.querySelectorAll<HTMLElement>('[data-island]')) {
+	const wake = (element: HTMLElement) => {
 		const name = element.dataset.island ?? '';
-		if (!Object.hasOwn(islands, name)) continue;
+		if (!Object.hasOwn(islands, name)) return;
 		const props = JSON.parse(element.dataset.props ?? '{}');
 		islands[name](props).then((island) => {
 			if (stopped || !island) return;
@@ -52,9 +65,27 @@ export function mountIslands(root: HTMLElement): () => void {
 			element.replaceChildren();
 			mounted.push(mount(island.component, { target: element, props: island.props }));
 		});
+	};
+	const watcher =
+		typeof IntersectionObserver === 'function'
+			? new IntersectionObserver(
+					(entries) => {
+						for (const entry of entries) {
+							if (!entry.isIntersecting) continue;
+							watcher?.unobserve(entry.target);
+							wake(entry.target as HTMLElement);
+						}
+					},
+					{ rootMargin: LOAD_AHEAD }
+				)
+			: undefined;
+	for (const element of root.querySelectorAll<HTMLElement>('[data-island]')) {
+		if (watcher) watcher.observe(element);
+		else wake(element);
 	}
 	return () => {
 		stopped = true;
+		watcher?.disconnect();
 		for (const instance of mounted) unmount(instance);
 		for (const fit of fitted) fit.destroy();
 	};
