@@ -27,7 +27,9 @@ const root = path.resolve(import.meta.dirname, '..');
 const CONNECTIONS = 50;
 const SECONDS = Number(process.env.BENCH_SECONDS || 6);
 const WARM_UP_SECONDS = 2;
-const BARE_SECONDS = Math.max(2, Math.round(SECONDS / 2));
+/** Each target's measured time is split into rounds, each right after a round of the bare server. */
+const ROUNDS = Math.max(1, Number(process.env.BENCH_ROUNDS || 3));
+const ROUND_SECONDS = Math.max(1, Math.round(SECONDS / ROUNDS));
 const TRAINEE = { email: 'sam@brindlewick.test', password: 'patchwright-demo' };
 const SIGNED_IN_LESSON = '/courses/point-repair-installer/resin-quantity';
 
@@ -191,11 +193,6 @@ function cpuPerRequest(before: number | null, after: number | null, requests: nu
 	return before === null || after === null || requests === 0 ? null : ((after - before) * 1e6) / requests;
 }
 
-export async function measure(url: string, target: Target, cookie: string | null, serverPid?: number): Promise<LoadResult> {
-	await load(url, target, cookie, WARM_UP_SECONDS);
-	return load(url, target, cookie, SECONDS, serverPid);
-}
-
 /** Page weight runs in its own plain Node process (see scripts/bench-pages.mjs). */
 function weighPages(appUrl: string): Promise<void> {
 	const child = spawn(process.execPath, [path.join(root, 'scripts/bench-pages.mjs'), appUrl, TRAINEE.email, TRAINEE.password], { cwd: root, stdio: 'inherit' });
@@ -223,7 +220,30 @@ interface PairedResult {
 	app: LoadResult;
 	/** The bare server, measured just before this target. */
 	bare: LoadResult;
+	/** The lowest and highest "vs bare" of the rounds, in %. */
+	spread: [number, number];
 }
+
+const vsBare = (pair: { app: LoadResult; bare: LoadResult }) => (100 * pair.app.requestsPerSecond) / pair.bare.requestsPerSecond;
+
+/**
+ * A target measured in rounds, each right after a round of the bare server, so a change in the
+ * machine's speed during the run (other load, a slower period of a shared host) weighs on both
+ * sides of each pair; the round with the median ratio is the result, the others give its spread.
+ */
+async function measurePaired(bareUrl: string, barePid: number | undefined, appUrl: string, target: Target, cookie: string, appPid: number | undefined): Promise<PairedResult> {
+	await load(appUrl, target, cookie, WARM_UP_SECONDS);
+	const pairs: { app: LoadResult; bare: LoadResult }[] = [];
+	for (let round = 0; round < ROUNDS; round++) {
+		const bare = await load(bareUrl, BARE_TARGET, null, ROUND_SECONDS, barePid);
+		pairs.push({ bare, app: await load(appUrl, target, cookie, ROUND_SECONDS, appPid) });
+	}
+	pairs.sort((a, b) => vsBare(a) - vsBare(b));
+	const median = pairs[Math.floor(pairs.length / 2)];
+	return { ...median, spread: [vsBare(pairs[0]), vsBare(pairs[pairs.length - 1])] };
+}
+
+const BARE_TARGET: Target = { name: 'bare', path: '/items/4242' };
 
 const micros = (n: number | null) => (n === null ? '-' : Math.round(n).toLocaleString('en-US'));
 const cpuRatio = (bare: number | null, app: number | null) => (bare === null || !app ? '-' : `${((100 * bare) / app).toFixed(1)} %`);
@@ -231,19 +251,21 @@ const cpuRatio = (bare: number | null, app: number | null) => (bare === null || 
 function printLoad(rows: PairedResult[]) {
 	const width = Math.max(...rows.map((r) => r.app.name.length), 6);
 	const num = (n: number) => Math.round(n).toLocaleString('en-US');
-	console.log(`\nHTTP: ${CONNECTIONS} connections, ${SECONDS} s per target after ${WARM_UP_SECONDS} s warm-up (autocannon)`);
-	console.log('Each target is measured right after the bare node:http + better-sqlite3 point lookup (100,000 rows)');
-	console.log('on the same machine, and "vs bare" is the ratio of the two: other load on the machine weighs on both.');
+	console.log(`\nHTTP: ${CONNECTIONS} connections, ${ROUNDS} rounds of ${ROUND_SECONDS} s per target after ${WARM_UP_SECONDS} s warm-up (autocannon)`);
+	console.log('Each round of a target is measured right after a round of the bare node:http + better-sqlite3 point lookup');
+	console.log('(100,000 rows) on the same machine, and "vs bare" is the ratio of the two: other load on the machine weighs');
+	console.log('on both. The round with the median ratio is shown; "spread" is the lowest and highest ratio of the rounds.');
 	console.log('"CPU µs" is the server\'s CPU time per answer (from /proc); "by CPU" is bare CPU per answer over the app\'s,');
 	console.log('the share of the bare server\'s rate the app would reach on an idle core, which other load disturbs far less.');
 	console.log('Pages are asked for as a browser asks (Accept-Encoding: gzip, deflate, br, zstd).');
 	console.log(
-		`${'target'.padEnd(width)}  ${'req/s'.padStart(8)}  ${'p50 ms'.padStart(7)}  ${'p99 ms'.padStart(7)}  ${'errors'.padStart(6)}  ${'non-2xx'.padStart(7)}  ${'429'.padStart(5)}  ${'bare req/s'.padStart(10)}  ${'bare p99'.padStart(8)}  ${'vs bare'.padStart(7)}  ${'CPU µs'.padStart(7)}  ${'bare CPU'.padStart(8)}  ${'by CPU'.padStart(7)}`
+		`${'target'.padEnd(width)}  ${'req/s'.padStart(8)}  ${'p50 ms'.padStart(7)}  ${'p99 ms'.padStart(7)}  ${'errors'.padStart(6)}  ${'non-2xx'.padStart(7)}  ${'429'.padStart(5)}  ${'bare req/s'.padStart(10)}  ${'bare p99'.padStart(8)}  ${'vs bare'.padStart(7)}  ${'spread'.padStart(13)}  ${'CPU µs'.padStart(7)}  ${'bare CPU'.padStart(8)}  ${'by CPU'.padStart(7)}`
 	);
-	for (const { app: r, bare } of rows) {
+	for (const { app: r, bare, spread } of rows) {
 		const ratio = `${((100 * r.requestsPerSecond) / bare.requestsPerSecond).toFixed(1)} %`;
+		const range = `${spread[0].toFixed(0)}–${spread[1].toFixed(0)} %`;
 		console.log(
-			`${r.name.padEnd(width)}  ${num(r.requestsPerSecond).padStart(8)}  ${r.p50.toFixed(1).padStart(7)}  ${r.p99.toFixed(1).padStart(7)}  ${String(r.errors).padStart(6)}  ${String(r.non2xx).padStart(7)}  ${String(r.tooMany).padStart(5)}  ${num(bare.requestsPerSecond).padStart(10)}  ${bare.p99.toFixed(1).padStart(8)}  ${ratio.padStart(7)}  ${micros(r.cpuMicros).padStart(7)}  ${micros(bare.cpuMicros).padStart(8)}  ${cpuRatio(bare.cpuMicros, r.cpuMicros).padStart(7)}`
+			`${r.name.padEnd(width)}  ${num(r.requestsPerSecond).padStart(8)}  ${r.p50.toFixed(1).padStart(7)}  ${r.p99.toFixed(1).padStart(7)}  ${String(r.errors).padStart(6)}  ${String(r.non2xx).padStart(7)}  ${String(r.tooMany).padStart(5)}  ${num(bare.requestsPerSecond).padStart(10)}  ${bare.p99.toFixed(1).padStart(8)}  ${ratio.padStart(7)}  ${range.padStart(13)}  ${micros(r.cpuMicros).padStart(7)}  ${micros(bare.cpuMicros).padStart(8)}  ${cpuRatio(bare.cpuMicros, r.cpuMicros).padStart(7)}`
 		);
 	}
 }
@@ -258,16 +280,14 @@ export async function runHttpBench(): Promise<void> {
 	const bare = await startBare();
 	let app: Awaited<ReturnType<typeof startApp>> | null = null;
 	try {
-		const bareTarget: Target = { name: 'bare', path: '/items/4242' };
-		await load(bare.url, bareTarget, null, WARM_UP_SECONDS);
+		await load(bare.url, BARE_TARGET, null, WARM_UP_SECONDS);
 		app = await startApp(buildDir);
 		const cookie = await signIn(app.url, TRAINEE.email, TRAINEE.password);
 		const only = process.env.BENCH_TARGETS;
 		const rows: PairedResult[] = [];
 		for (const target of appTargets()) {
 			if (only && !target.name.includes(only)) continue;
-			const bareResult = await load(bare.url, bareTarget, null, BARE_SECONDS, bare.child.pid);
-			rows.push({ bare: bareResult, app: await measure(app.url, target, cookie, app.child.pid) });
+			rows.push(await measurePaired(bare.url, bare.child.pid, app.url, target, cookie, app.child.pid));
 		}
 		printLoad(rows);
 		if (!only) await weighPages(app.url);

@@ -7,7 +7,7 @@ import { FAST_FRONT_KEY } from '$lib/server/fast-front';
 import { getDb } from '$lib/server/db';
 import { migrateToLatest } from '$lib/server/db/migrate';
 import { useLimitStore } from '$lib/server/rate-limit';
-import { addFastFront, SERVER_LINE } from '../../scripts/adapter-fast-front.js';
+import { addFastFront, FRONT, FRONT_FIRST, SERVER_LINE } from '../../scripts/adapter-fast-front.js';
 import { useTemporaryDataDir } from '../helpers/certificates';
 import { FELL_THROUGH, serveMiddleware } from '../helpers/front-door';
 import { POST as verifyPost } from '../../src/routes/api/v1/certificates/verify/+server';
@@ -93,6 +93,44 @@ describe('the fast JSON path', () => {
 		expect(JSON.parse(unknown.text).error.code).toBe('not_found');
 	});
 
+	it('reads a body that arrives in pieces, with a character split between them', async () => {
+		// "π" is two bytes in UTF-8 (0xCF 0x80); the field is unknown, so the answer names it back.
+		const bytes = Buffer.from(JSON.stringify({ inputs: { diameterMm: 225, lengthMm: 600, thicknessMm: 6, 'π': 1 } }));
+		const cut = bytes.indexOf(0xcf) + 1;
+		const answer = await new Promise<{ status: number; text: string }>((resolve, reject) => {
+			const req = http.request(`${base}/api/v1/calculations/laminate-volume`, {
+				method: 'POST',
+				headers: { 'Content-Type': 'application/json', 'Content-Length': String(bytes.length) }
+			});
+			req.on('response', (res) => {
+				const chunks: Buffer[] = [];
+				res.on('data', (c) => chunks.push(c));
+				res.on('end', () => resolve({ status: res.statusCode!, text: Buffer.concat(chunks).toString('utf8') }));
+			});
+			req.on('error', reject);
+			req.flushHeaders();
+			req.write(bytes.subarray(0, cut));
+			setTimeout(() => req.end(bytes.subarray(cut)), 30);
+		});
+		expect(answer.status).toBe(400);
+		expect(JSON.parse(answer.text).error.fields).toEqual({ 'π': expect.stringContaining('Unknown input') });
+	});
+
+	it('lets go of a body the client gives up on halfway, and goes on answering', async () => {
+		await new Promise<void>((resolve) => {
+			const req = http.request(`${base}/api/v1/calculations/laminate-volume`, {
+				method: 'POST',
+				headers: { 'Content-Type': 'application/json', 'Content-Length': '100' }
+			});
+			req.on('error', () => resolve());
+			req.flushHeaders();
+			req.write('{"inputs":');
+			setTimeout(() => req.destroy(), 30);
+		});
+		const health = await send('GET', '/api/v1/health');
+		expect(health.status).toBe(200);
+	});
+
 	it('counts every call against the same per-address limit as the routes, answering 429 with Retry-After', async () => {
 		let last = await send('GET', '/api/v1/practice/mix-ratio?seed=7');
 		expect(last.status).toBe(200);
@@ -159,6 +197,12 @@ describe('the fast JSON path', () => {
 		expect(matchRoute('POST', '/api/v1/calculations/mix-ratio')).toMatchObject({ params: { id: 'mix-ratio' } });
 		expect(matchRoute('GET', '/api/v1/calculations/mix-ratio')).toBeNull();
 		expect(matchRoute('GET', '/api/v1/practice/mix-ratio/check')).toBeNull();
+		// relative, empty or encoded segments, and near misses, are SvelteKit's to normalise or refuse
+		for (const path of ['/api/v1/calculations/..', '/api/v1/calculations/.', '/api/v1/calculations/', '/api/v1/calculations/a%2Fb', '/api/v1/health/', '/api/v1/healthz', '/api/v1/me/', '/API/v1/me']) {
+			expect(matchRoute(path.includes('calculations') ? 'POST' : 'GET', path), path).toBeNull();
+		}
+		expect(matchRoute('POST', '/api/v1/calculations/..x')).toMatchObject({ params: { id: '..x' } });
+		expect(matchRoute('GET', '/api/v1/me')).toMatchObject({ params: {} });
 		for (const route of ['/api/v1/health', '/api/v1/calculations/[id]', '/api/v1/practice/[generator]', '/api/v1/certificates/[number]', '/api/v1/me']) {
 			// each route the fast path serves is also a SvelteKit route file, used by `vite dev` and as the fallback
 			expect(fs.existsSync(`src/routes${route}/+server.ts`), route).toBe(true);
@@ -182,11 +226,56 @@ describe("the fast front in adapter-node's entry point", () => {
 		const shipped = fs.readFileSync('node_modules/@sveltejs/adapter-node/files/index.js', 'utf8');
 		expect(shipped).toContain(SERVER_LINE);
 		const patched = addFastFront(shipped);
-		expect(patched).toContain('polka({ server: httpServer }).use(fast_front, handler)');
-		expect(patched.indexOf('const fast_front')).toBeLessThan(patched.indexOf('use(fast_front'));
+		// polka's own request listener is wrapped before it listens: the front door comes first
+		expect(patched).toContain('server.attach = (req, res) => {');
+		expect(patched).toContain('fast_front(req, res, next);');
+		expect(patched.indexOf('const fast_front')).toBeLessThan(patched.indexOf('server.attach ='));
+		expect(patched.indexOf('server.attach =')).toBeLessThan(patched.indexOf('server.listen('));
 		// the entry point looks for the front door under the key the app publishes it with
 		expect(patched).toContain(`globalThis[Symbol.for('${FAST_FRONT_KEY.description}')]`);
 		expect(addFastFront(patched)).toBe(patched);
+	});
+
+	it('passes on what the front door leaves, once, and survives a fault in it', () => {
+		const published = (globalThis as Record<symbol, unknown>)[FAST_FRONT_KEY];
+		const errors = console.error;
+		try {
+			const polka: string[] = [];
+			type Res = { headersSent: boolean; writableEnded: boolean; destroyed: boolean; destroy(): void };
+			const server = { attach: (req: { id: string }, _res: Res) => void polka.push(req.id) };
+			new Function('server', `${FRONT}${FRONT_FIRST}`)(server);
+			const res = (): Res => ({ headersSent: false, writableEnded: false, destroyed: false, destroy() { this.destroyed = true; } });
+			const front = (behaviour: (next: () => void) => void) => {
+				(globalThis as Record<symbol, unknown>)[FAST_FRONT_KEY] = (_req: unknown, _res: unknown, next: () => void) => behaviour(next);
+			};
+			console.error = () => {};
+
+			front((next) => next());
+			server.attach({ id: 'stepped aside' }, res());
+			front(() => {});
+			server.attach({ id: 'answered' }, res());
+			front(() => {
+				throw new Error('fault before answering');
+			});
+			server.attach({ id: 'fault' }, res());
+			front((next) => {
+				next();
+				throw new Error('fault after passing on');
+			});
+			server.attach({ id: 'fault after next' }, res());
+			expect(polka).toEqual(['stepped aside', 'fault', 'fault after next']);
+
+			const begun = { ...res(), headersSent: true };
+			front(() => {
+				throw new Error('fault mid-answer');
+			});
+			server.attach({ id: 'mid-answer' }, begun);
+			expect(begun.destroyed).toBe(true);
+			expect(polka).not.toContain('mid-answer');
+		} finally {
+			(globalThis as Record<symbol, unknown>)[FAST_FRONT_KEY] = published;
+			console.error = errors;
+		}
 	});
 
 	it('stops the build when adapter-node writes its entry point another way', () => {

@@ -324,6 +324,8 @@ export function unitCodes(): string[] {
 
 /** The unit as printed to a person: "m²", "°C", "US gal". Unknown units print as given. */
 export function unitLabel(unit: string): string {
+	// the calculators' own steps name units by their codes: no need to tidy and look up aliases
+	if (Object.hasOwn(UNITS, unit)) return UNITS[unit].label;
 	const code = resolveUnit(unit);
 	return code === undefined ? unit : UNITS[code].label;
 }

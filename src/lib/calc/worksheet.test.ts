@@ -28,3 +28,13 @@ describe('numbers in worked steps', () => {
 		expect(roundSignificant(1.1705630989)).toBe(1.17056);
 	});
 });
+
+describe('grouping at the edge of five digits', () => {
+	it('groups a number that rounds up to 10,000, and no smaller one', () => {
+		expect(num(9999.7)).toBe('10,000');
+		expect(num(9998.7)).toBe('9999');
+		expect(plain(9999.9999999)).toBe('10,000');
+		expect(plain(9998.5)).toBe('9998.5');
+		expect(num(-12345)).toBe('-12,345');
+	});
+});

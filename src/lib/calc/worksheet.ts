@@ -1,6 +1,9 @@
 import type { Alert, AlertLevel, CalcOutput, ResultValue } from './types';
 import { unitLabel } from './units';
 
+/** Below this no rounding reaches five whole digits, so there is nothing to group (and no regular expression to run). */
+const GROUPING_FROM = 9999;
+
 /**
  * A number to `significant` figures, without exponent notation, grouped in thousands
  * from 10,000 up: 0.15 -> "0.150", 1413.7 -> "1414", 125000 -> "125,000".
@@ -11,13 +14,15 @@ export function num(value: number, significant = 3): string {
 	if (Math.abs(value) < 1e-6) return value.toExponential(significant - 1);
 	const magnitude = Math.floor(Math.log10(Math.abs(value)));
 	const decimals = Math.max(0, significant - 1 - magnitude);
-	return groupThousands(value.toFixed(decimals));
+	const text = value.toFixed(decimals);
+	return Math.abs(value) < GROUPING_FROM ? text : groupThousands(text);
 }
 
 /** A number as a person typed it: at most `significant` figures, no padding zeros: 50, 0.3, 125,000. */
 export function plain(value: number, significant = 6): string {
 	if (!Number.isFinite(value)) return String(value);
-	return groupThousands(String(roundSignificant(value, significant)));
+	const text = String(roundSignificant(value, significant));
+	return Math.abs(value) < GROUPING_FROM ? text : groupThousands(text);
 }
 
 /**
@@ -66,16 +71,19 @@ export class Worksheet {
 		return this;
 	}
 
+	/** The output; the worksheet is not used after this, so its lists are handed over as they are. */
 	done(result: Record<string, ResultValue>): CalcOutput {
-		const rounded = Object.fromEntries(
-			Object.entries(result).map(([k, v]) => [k, typeof v === 'number' ? roundSignificant(v) : v])
-		);
+		const rounded: Record<string, ResultValue> = {};
+		for (const key of Object.keys(result)) {
+			const value = result[key];
+			rounded[key] = typeof value === 'number' ? roundSignificant(value) : value;
+		}
 		return {
 			result: rounded,
-			steps: [...this.steps],
-			sources: [...this.sources],
+			steps: this.steps,
+			sources: this.sources,
 			warnings: this.alerts.map((a) => `${a.title}: ${a.text}`),
-			alerts: [...this.alerts]
+			alerts: this.alerts
 		};
 	}
 }

@@ -34,6 +34,35 @@ export interface ApiRoute {
 	answer(call: ApiCall): Promise<Answer>;
 }
 
+/**
+ * A route that answers a JSON body, in two steps the built server's front door can run without
+ * a promise (each costs there: AsyncLocalStorage's hooks run for every one): what stops the call
+ * before its body is read, then the answer to the body. `answer` runs the same steps for
+ * SvelteKit's route file.
+ */
+export interface JsonBodyRoute extends ApiRoute {
+	method: 'POST';
+	/** An answer that stops the call before its body is read (the rate limit), null to go on, or a promise of either. */
+	before(call: ApiCall): Answer | null | Promise<Answer | null>;
+	/** The answer to the body, once it has been read under the API's rules (JSON, capped, UTF-8). */
+	withBody(call: ApiCall, text: string): Answer;
+}
+
+function jsonBodyRoute(route: Omit<JsonBodyRoute, 'method' | 'answer'>): JsonBodyRoute {
+	return {
+		...route,
+		method: 'POST',
+		async answer(call) {
+			const refused = await route.before(call);
+			if (refused) return refused;
+			const read = await call.jsonText();
+			return read.ok ? route.withBody(call, read.text) : read.answer;
+		}
+	};
+}
+
+export const isJsonBodyRoute = (route: ApiRoute): route is JsonBodyRoute => 'withBody' in route;
+
 export const health: ApiRoute = {
 	id: '/api/v1/health',
 	method: 'GET',
@@ -44,17 +73,11 @@ export const health: ApiRoute = {
 };
 
 /** Runs one calculator on {"inputs": {...}}; no sign-in, limited per client address. */
-export const calculation: ApiRoute = {
+export const calculation = jsonBodyRoute({
 	id: '/api/v1/calculations/[id]',
-	method: 'POST',
-	async answer(call) {
-		const refused = await limitAnswer(call.clientAddress, CALCULATION_API_LIMIT);
-		if (refused) return refused;
-		const read = await call.jsonText();
-		if (!read.ok) return read.answer;
-		return answerCalculation(call.params.id, read.text);
-	}
-};
+	before: (call) => limitAnswer(call.clientAddress, CALCULATION_API_LIMIT),
+	withBody: (call, text) => answerCalculation(call.params.id, text)
+});
 
 /** One problem for ?seed=N (the same seed, the same problem), without its answer. */
 export const practiceProblem: ApiRoute = {

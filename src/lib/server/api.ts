@@ -127,7 +127,7 @@ export function isJsonType(contentType: string | null | undefined): boolean {
 	return type === 'application/json' || (type.startsWith('application/') && type.endsWith('+json'));
 }
 
-const tooLarge = (maxBytes: number) => errorAnswer(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`);
+export const tooLarge = (maxBytes: number) => errorAnswer(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`);
 
 /**
  * Reads at most `maxBytes` of a body (a web stream or a Node request: both are async iterables
@@ -155,14 +155,23 @@ export async function readCapped(
 		if ((e as { status?: number } | null)?.status === 413) return { ok: false, answer: tooLarge(maxBytes) };
 		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body could not be read.') };
 	}
-	const bytes = new Uint8Array(size);
-	let at = 0;
-	for (const chunk of chunks) {
-		bytes.set(chunk, at);
-		at += chunk.byteLength;
+	return decodeBody(chunks, size);
+}
+
+const utf8 = new TextDecoder('utf-8', { fatal: true });
+
+/** A body's chunks as one UTF-8 text; bytes that are not UTF-8 are 400. */
+export function decodeBody(chunks: readonly Uint8Array[], size: number): TextRead {
+	const bytes = chunks.length === 1 ? chunks[0] : new Uint8Array(size);
+	if (chunks.length !== 1) {
+		let at = 0;
+		for (const chunk of chunks) {
+			bytes.set(chunk, at);
+			at += chunk.byteLength;
+		}
 	}
 	try {
-		return { ok: true, text: new TextDecoder('utf-8', { fatal: true }).decode(bytes) };
+		return { ok: true, text: utf8.decode(bytes) };
 	} catch {
 		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body is not valid UTF-8.') };
 	}

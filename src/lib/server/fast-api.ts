@@ -1,7 +1,7 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import { parse as parseCookies } from 'cookie';
-import { busyAnswer, errorAnswer, logUnexpected, readCapped, refuseNonJson, type Answer } from './api';
-import { hotRoutes, type ApiCall, type ApiRoute } from './api-routes';
+import { busyAnswer, decodeBody, DEFAULT_MAX_BYTES, errorAnswer, logUnexpected, refuseNonJson, tooLarge, type Answer, type TextRead } from './api';
+import { hotRoutes, isJsonBodyRoute, type ApiCall, type ApiRoute, type JsonBodyRoute } from './api-routes';
 import { authSecret } from './auth';
 import { isDatabaseBusy } from './db/errors';
 import { NO_STORE, SECURITY_HEADERS } from './security-headers';
@@ -21,34 +21,35 @@ export type Middleware = (req: IncomingMessage, res: ServerResponse, next: () =>
 
 interface Compiled {
 	route: ApiRoute;
-	/** Each path segment: a literal, or the name of a parameter. */
-	segments: { literal?: string; param?: string }[];
+	/** The route id as a pattern: each parameter one segment, never empty, "." or "..", nor holding "%". */
+	pattern: RegExp;
+	/** The parameters' names, in the order the pattern captures them. */
+	names: string[];
 }
 
-const compiled: Compiled[] = hotRoutes.map((route) => ({
-	route,
-	segments: route.id
+const compiled: Compiled[] = hotRoutes.map((route) => {
+	const names: string[] = [];
+	const source = route.id
 		.split('/')
-		.slice(1)
-		.map((part) => (part.startsWith('[') && part.endsWith(']') ? { param: part.slice(1, -1) } : { literal: part }))
-}));
-
-/** The route and its decoded parameters, or null when the path is not one of ours exactly. */
-export function matchRoute(method: string, pathname: string): { route: ApiRoute; params: Record<string, string> } | null {
-	const parts = pathname.split('/').slice(1);
-	for (const { route, segments } of compiled) {
-		if (route.method !== method || segments.length !== parts.length) continue;
-		const params: Record<string, string> = Object.create(null);
-		let ok = true;
-		for (let i = 0; i < segments.length && ok; i++) {
-			const segment = segments[i];
-			const part = parts[i];
-			if (segment.literal !== undefined) ok = part === segment.literal;
+		.map((part) => {
+			if (!(part.startsWith('[') && part.endsWith(']'))) return part.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+			names.push(part.slice(1, -1));
 			// anything encoded or relative is left to SvelteKit, which decodes and normalises paths its own way
-			else ok = part !== '' && part !== '.' && part !== '..' && !part.includes('%');
-			if (ok && segment.param) params[segment.param] = part;
-		}
-		if (ok) return { route, params };
+			return '(?!\\.\\.?(?:/|$))([^/%]+)';
+		})
+		.join('/');
+	return { route, pattern: new RegExp(`^${source}$`), names };
+});
+
+/** The route and its parameters, or null when the path is not one of ours exactly. */
+export function matchRoute(method: string, pathname: string): { route: ApiRoute; params: Record<string, string> } | null {
+	for (const { route, pattern, names } of compiled) {
+		if (route.method !== method) continue;
+		const found = pattern.exec(pathname);
+		if (!found) continue;
+		const params: Record<string, string> = Object.create(null);
+		for (let i = 0; i < names.length; i++) params[names[i]] = found[i + 1];
+		return { route, params };
 	}
 	return null;
 }
@@ -77,17 +78,43 @@ function write(res: ServerResponse, { status, body, headers }: Answer): void {
 	res.end(text);
 }
 
+/**
+ * The body of a request whose length is declared, read from Node's events and handed to `done`:
+ * the same rules as `readCapped` (413 past the cap before a byte is read, 400 for a broken
+ * stream or bad UTF-8), with no promise.
+ */
+export function readDeclaredBody(req: IncomingMessage, done: (read: TextRead) => void, maxBytes = DEFAULT_MAX_BYTES): void {
+	const declared = Number(req.headers['content-length']);
+	if (Number.isFinite(declared) && declared > maxBytes) return done({ ok: false, answer: tooLarge(maxBytes) });
+	const chunks: Buffer[] = [];
+	let size = 0;
+	const finish = (read: TextRead) => {
+		req.off('data', onData).off('end', onEnd).off('error', onError);
+		done(read);
+	};
+	// Node's parser never delivers more than the declared length; the cap is checked all the same
+	const onData = (chunk: Buffer) => {
+		size += chunk.byteLength;
+		if (size > maxBytes) finish({ ok: false, answer: tooLarge(maxBytes) });
+		else chunks.push(chunk);
+	};
+	const onEnd = () => finish(decodeBody(chunks, size));
+	const onError = () => finish({ ok: false, answer: errorAnswer(400, 'bad_request', 'The request body could not be read.') });
+	req.on('data', onData).on('end', onEnd).on('error', onError);
+}
+
 function callOf(req: IncomingMessage, params: Record<string, string>, query: string, address: string): ApiCall {
 	return {
 		params,
-		query: new URLSearchParams(query),
+		// parsed only by the routes that read it
+		get query() {
+			return new URLSearchParams(query);
+		},
 		clientAddress: address,
-		async jsonText() {
+		jsonText() {
 			const refused = refuseNonJson(req.headers['content-type']);
-			if (refused) return { ok: false, answer: refused };
-			// the length is declared (chunked bodies go on to SvelteKit): past the cap it is 413
-			// before a byte is read, and Node's parser never delivers more than it
-			return readCapped(req.headers['content-length'], req);
+			// the length is declared (chunked bodies go on to SvelteKit)
+			return refused ? Promise.resolve({ ok: false, answer: refused }) : new Promise((resolve) => readDeclaredBody(req, resolve));
 		},
 		async identity() {
 			const header = req.headers.cookie;
@@ -98,13 +125,42 @@ function callOf(req: IncomingMessage, params: Record<string, string>, query: str
 	};
 }
 
-async function answerSafely(method: string, pathname: string, route: ApiRoute, call: ApiCall): Promise<Answer> {
+/**
+ * A JSON-body route's two steps from Node's events, without a promise while the limit can be
+ * told at once: the same answers, in the same order, as its `answer` (429, then 415, 413 or 400
+ * for the body, then the route's answer).
+ */
+function answerJsonBody(req: IncomingMessage, res: ServerResponse, route: JsonBodyRoute, call: ApiCall, fail: (e: unknown) => void): void {
+	const withBody = (read: TextRead) => {
+		if (!read.ok) return write(res, read.answer);
+		let answer: Answer;
+		try {
+			answer = route.withBody(call, read.text);
+		} catch (e) {
+			return fail(e);
+		}
+		write(res, answer);
+	};
+	const go = (refused: Answer | null) => {
+		if (refused) return write(res, refused);
+		const notJson = refuseNonJson(req.headers['content-type']);
+		if (notJson) return write(res, notJson);
+		readDeclaredBody(req, withBody);
+	};
+	let stop: Answer | null | Promise<Answer | null>;
 	try {
-		return await route.answer(call);
+		stop = route.before(call);
 	} catch (e) {
-		if (isDatabaseBusy(e)) return busyAnswer();
-		return errorAnswer(500, 'internal', 'Something went wrong on our side.', undefined, { id: logUnexpected(method, pathname, e) });
+		return fail(e);
 	}
+	if (stop instanceof Promise) stop.then(go, fail);
+	else go(stop);
+}
+
+/** The answer to a route that threw: 503 when the database was busy, otherwise 500 with a reference in the log. */
+function failureAnswer(method: string, pathname: string, e: unknown): Answer {
+	if (isDatabaseBusy(e)) return busyAnswer();
+	return errorAnswer(500, 'internal', 'Something went wrong on our side.', undefined, { id: logUnexpected(method, pathname, e) });
 }
 
 export const fastApi: Middleware = (req, res, next) => {
@@ -120,8 +176,13 @@ export const fastApi: Middleware = (req, res, next) => {
 	const address = clientAddress(req);
 	if (address === null) return next();
 	const call = callOf(req, found.params, q === -1 ? '' : url.slice(q + 1), address);
-	answerSafely(method, pathname, found.route, call).then(
-		(answer) => write(res, answer),
-		() => res.destroy()
-	);
+	const fail = (e: unknown) => write(res, failureAnswer(method, pathname, e));
+	if (isJsonBodyRoute(found.route)) return answerJsonBody(req, res, found.route, call, fail);
+	let answer: Promise<Answer>;
+	try {
+		answer = found.route.answer(call);
+	} catch (e) {
+		answer = Promise.reject(e);
+	}
+	answer.then((done) => write(res, done), fail);
 };

@@ -1,7 +1,7 @@
 import Database from 'better-sqlite3';
 import { sql } from 'kysely';
 import { rateLimitedAnswer, toResponse, type Answer } from './api';
-import { config } from './config';
+import { config, loadConfig } from './config';
 import { getDb, type DB } from './db';
 import { ensureWritableDir } from './db/engine';
 
@@ -80,7 +80,8 @@ export function useLimitStore(database: Database.Database | DB): void {
 
 /** A fixed limit raised by RATE_LIMIT_FACTOR (the sign-in limits have settings of their own). */
 export function scaledLimit(limit: number): number {
-	return limit * config.rateLimitFactor;
+	// loadConfig() rather than the `config` proxy: this runs on every public API call
+	return limit * loadConfig().rateLimitFactor;
 }
 
 export interface RateLimitResult {
@@ -156,7 +157,8 @@ const MAX_RESERVATIONS = 10_000;
 /** A process takes a twentieth of a limit at a time (one point for limits under 20). */
 const BLOCKS_PER_LIMIT = 20;
 
-export type Counter = (bucket: string, key: string, limit: number, windowMs: number) => Promise<RateLimitResult>;
+/** A verdict now when it can be given without waiting, otherwise a promise of one. */
+export type Counter = (bucket: string, key: string, limit: number, windowMs: number) => RateLimitResult | Promise<RateLimitResult>;
 
 /**
  * A counter for the public APIs, where every request is counted: like `hit`, but it takes
@@ -180,26 +182,34 @@ export function reservingCounter(maxKeys = MAX_RESERVATIONS): { hit: Counter; fo
 		if (reservations.size >= maxKeys) reservations.delete(reservations.keys().next().value!);
 		reservations.set(id, { left: granted, expireMs: taken.expireMs, refused: granted === 0 });
 	};
-	return {
-		async hit(bucket, key, limit, windowMs) {
-			const id = `${bucket}:${key}`;
-			for (;;) {
-				const now = Date.now();
-				const held = reservations.get(id);
-				if (held && held.expireMs > now) {
-					if (held.left > 0) {
-						held.left--;
-						return ALLOWED;
-					}
-					if (held.refused) return refusal(held.expireMs, now);
-				}
-				let pending = refills.get(id);
-				if (!pending) {
-					pending = refill(id, bucket, key, limit, windowMs).finally(() => refills.delete(id));
-					refills.set(id, pending);
-				}
-				await pending;
+	/** The verdict this process can give from the points it holds, or undefined when it must ask the table. */
+	const fromHeld = (id: string, now: number): RateLimitResult | undefined => {
+		const held = reservations.get(id);
+		if (!held || held.expireMs <= now) return undefined;
+		if (held.left > 0) {
+			held.left--;
+			return ALLOWED;
+		}
+		return held.refused ? refusal(held.expireMs, now) : undefined;
+	};
+	const afterRefill = async (id: string, bucket: string, key: string, limit: number, windowMs: number): Promise<RateLimitResult> => {
+		for (;;) {
+			let pending = refills.get(id);
+			if (!pending) {
+				pending = refill(id, bucket, key, limit, windowMs).finally(() => refills.delete(id));
+				refills.set(id, pending);
 			}
+			await pending;
+			const verdict = fromHeld(id, Date.now());
+			if (verdict) return verdict;
+		}
+	};
+	return {
+		// Synchronous while the process holds points for the key (almost every request), so a
+		// busy public API pays for no promise here.
+		hit(bucket, key, limit, windowMs) {
+			const id = `${bucket}:${key}`;
+			return fromHeld(id, Date.now()) ?? afterRefill(id, bucket, key, limit, windowMs);
 		},
 		forget: (bucket, key) => void reservations.delete(`${bucket}:${key}`),
 		reset: () => reservations.clear()
@@ -232,10 +242,15 @@ export interface ApiLimit {
 
 /**
  * For public JSON APIs: counts a request from the client's address and answers 429 with
- * Retry-After once the window is used up; null while the request may go ahead.
+ * Retry-After once the window is used up; null while the request may go ahead. Given at once
+ * (no promise) while this process holds points for the address.
  */
-export async function limitAnswer(clientAddress: string, { bucket, limit, windowMs }: ApiLimit): Promise<Answer | null> {
-	const verdict = await hitReserving(bucket, clientAddress, scaledLimit(limit), windowMs);
+export function limitAnswer(clientAddress: string, { bucket, limit, windowMs }: ApiLimit): Answer | null | Promise<Answer | null> {
+	const verdict = hitReserving(bucket, clientAddress, scaledLimit(limit), windowMs);
+	return verdict instanceof Promise ? verdict.then(answerFor) : answerFor(verdict);
+}
+
+function answerFor(verdict: RateLimitResult): Answer | null {
 	if (verdict.ok) return null;
 	return rateLimitedAnswer(verdict.retryAfterSeconds, `Too many requests from this address. Try again in ${verdict.retryAfterSeconds} s.`);
 }
