@@ -178,11 +178,12 @@ export const fastApi: Middleware = (req, res, next) => {
 	const call = callOf(req, found.params, q === -1 ? '' : url.slice(q + 1), address);
 	const fail = (e: unknown) => write(res, failureAnswer(method, pathname, e));
 	if (isJsonBodyRoute(found.route)) return answerJsonBody(req, res, found.route, call, fail);
-	let answer: Promise<Answer>;
+	let answer: Answer | Promise<Answer>;
 	try {
 		answer = found.route.answer(call);
 	} catch (e) {
-		answer = Promise.reject(e);
+		return fail(e);
 	}
-	answer.then((done) => write(res, done), fail);
+	if (answer instanceof Promise) answer.then((done) => write(res, done), fail);
+	else write(res, answer);
 };
