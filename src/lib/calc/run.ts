@@ -18,4 +18,3 @@ export function computeChecked(def: CalculatorDef, parsed: ParsedInputs): Calcul
 	if (!parsed.ok) return { ok: false, status: 400, errors: parsed.errors };
 	return { ok: true, ...def.compute(parsed.inputs) };
 }
-

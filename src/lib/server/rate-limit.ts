@@ -1,7 +1,7 @@
 import Database from 'better-sqlite3';
 import { sql } from 'kysely';
 import { rateLimitedAnswer, toResponse, type Answer } from './api';
-import { config, loadConfig } from './config';
+import { config } from './config';
 import { getDb, type DB } from './db';
 import { ensureWritableDir } from './db/engine';
 
@@ -80,8 +80,7 @@ export function useLimitStore(database: Database.Database | DB): void {
 
 /** A fixed limit raised by RATE_LIMIT_FACTOR (the sign-in limits have settings of their own). */
 export function scaledLimit(limit: number): number {
-	// loadConfig() rather than the `config` proxy: this runs on every public API call
-	return limit * loadConfig().rateLimitFactor;
+	return limit * config.rateLimitFactor;
 }
 
 export interface RateLimitResult {
