@@ -77,6 +77,18 @@ describe('readJson', () => {
 		expect(!out.ok && out.response.status).toBe(413);
 	});
 
+	it('answers 400 for a body whose stream broke off, and for bytes that are not UTF-8', async () => {
+		const broken = new ReadableStream({
+			start(controller) {
+				controller.error(new Error('connection reset'));
+			}
+		});
+		const cut = await readJson(post(broken), schema);
+		expect(!cut.ok && (await cut.response.json()).error.message).toBe('The request body could not be read.');
+		const notUtf8 = await readJson(post(new Uint8Array([0x7b, 0xff, 0xfe, 0x7d])), schema);
+		expect(!notUtf8.ok && (await notUtf8.response.json()).error.message).toMatch(/UTF-8/);
+	});
+
 	it('answers 400 with a message per field, prototype keys included, for bad bodies', async () => {
 		const notJson = await readJson(post('{done:'), schema);
 		expect(!notJson.ok && (await notJson.response.json()).error).toMatchObject({ code: 'bad_request', fields: { body: 'Not JSON' } });

@@ -127,54 +127,77 @@ export function isJsonType(contentType: string | null | undefined): boolean {
 	return type === 'application/json' || (type.startsWith('application/') && type.endsWith('+json'));
 }
 
-export const tooLarge = (maxBytes: number) => errorAnswer(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`);
+const tooLarge = (maxBytes: number): TextRead => ({ ok: false, answer: errorAnswer(413, 'payload_too_large', `The request body is larger than ${maxBytes} bytes.`) });
+
+/** 400 for a body whose stream broke off. */
+export const unreadableBody = (): TextRead => ({ ok: false, answer: errorAnswer(400, 'bad_request', 'The request body could not be read.') });
+
+const utf8 = new TextDecoder('utf-8', { fatal: true });
 
 /**
- * Reads at most `maxBytes` of a body (a web stream or a Node request: both are async iterables
- * of bytes), stopping as soon as more arrive. Throws nothing: a body over the cap (or over the
- * server's own limit) is 413, bytes that are not UTF-8 are 400.
+ * The API's rules for a request body, read chunk by chunk, shared by both readers (a web stream
+ * here, Node's events in the front door): 413 before a byte is read when the declared length is
+ * over the cap, 413 as soon as more than the cap arrives, 400 for bytes that are not UTF-8.
+ */
+export function cappedBody(contentLength: string | null | undefined, maxBytes = DEFAULT_MAX_BYTES) {
+	const declared = Number(contentLength);
+	const chunks: Uint8Array[] = [];
+	let size = 0;
+	return {
+		/** The 413 when the declared length is already over the cap, else null. */
+		refused: (): TextRead | null => (Number.isFinite(declared) && declared > maxBytes ? tooLarge(maxBytes) : null),
+		/** Takes a chunk; the 413 once the body is past the cap, else null. */
+		add(chunk: Uint8Array): TextRead | null {
+			size += chunk.byteLength;
+			if (size > maxBytes) return tooLarge(maxBytes);
+			chunks.push(chunk);
+			return null;
+		},
+		/** 413 for a stream that signalled its own limit (adapter-node's BODY_SIZE_LIMIT). */
+		tooLarge: () => tooLarge(maxBytes),
+		/** The whole body as text. */
+		text(): TextRead {
+			const bytes = chunks.length === 1 ? chunks[0] : new Uint8Array(size);
+			if (chunks.length !== 1) {
+				let at = 0;
+				for (const chunk of chunks) {
+					bytes.set(chunk, at);
+					at += chunk.byteLength;
+				}
+			}
+			try {
+				return { ok: true, text: utf8.decode(bytes) };
+			} catch {
+				return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body is not valid UTF-8.') };
+			}
+		}
+	};
+}
+
+/**
+ * Reads at most `maxBytes` of a web request's body, stopping as soon as more arrive (the built
+ * front door reads Node's requests by their events, `readDeclaredBody`). Throws nothing: see
+ * `cappedBody` for the answers.
  */
 export async function readCapped(
 	contentLength: string | null | undefined,
 	body: AsyncIterable<Uint8Array> | null,
 	maxBytes = DEFAULT_MAX_BYTES
 ): Promise<TextRead> {
-	const declared = Number(contentLength);
-	if (contentLength != null && Number.isFinite(declared) && declared > maxBytes) return { ok: false, answer: tooLarge(maxBytes) };
+	const capped = cappedBody(contentLength, maxBytes);
+	const refused = capped.refused();
+	if (refused) return refused;
 	if (!body) return { ok: true, text: '' };
-	const chunks: Uint8Array[] = [];
-	let size = 0;
 	try {
 		for await (const chunk of body) {
-			size += chunk.byteLength;
 			// leaving the loop cancels the stream, so the rest is never read
-			if (size > maxBytes) return { ok: false, answer: tooLarge(maxBytes) };
-			chunks.push(chunk);
+			const over = capped.add(chunk);
+			if (over) return over;
 		}
 	} catch (e) {
-		if ((e as { status?: number } | null)?.status === 413) return { ok: false, answer: tooLarge(maxBytes) };
-		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body could not be read.') };
+		return (e as { status?: number } | null)?.status === 413 ? capped.tooLarge() : unreadableBody();
 	}
-	return decodeBody(chunks, size);
-}
-
-const utf8 = new TextDecoder('utf-8', { fatal: true });
-
-/** A body's chunks as one UTF-8 text; bytes that are not UTF-8 are 400. */
-export function decodeBody(chunks: readonly Uint8Array[], size: number): TextRead {
-	const bytes = chunks.length === 1 ? chunks[0] : new Uint8Array(size);
-	if (chunks.length !== 1) {
-		let at = 0;
-		for (const chunk of chunks) {
-			bytes.set(chunk, at);
-			at += chunk.byteLength;
-		}
-	}
-	try {
-		return { ok: true, text: utf8.decode(bytes) };
-	} catch {
-		return { ok: false, answer: errorAnswer(400, 'bad_request', 'The request body is not valid UTF-8.') };
-	}
+	return capped.text();
 }
 
 /** 415 unless the content type is JSON; null when it is. */

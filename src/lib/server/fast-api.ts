@@ -1,6 +1,6 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import { parse as parseCookies } from 'cookie';
-import { busyAnswer, decodeBody, DEFAULT_MAX_BYTES, errorAnswer, logUnexpected, refuseNonJson, tooLarge, type Answer, type TextRead } from './api';
+import { busyAnswer, cappedBody, errorAnswer, logUnexpected, refuseNonJson, unreadableBody, type Answer, type TextRead } from './api';
 import { hotRoutes, isJsonBodyRoute, type ApiCall, type ApiRoute, type JsonBodyRoute } from './api-routes';
 import { authSecret } from './auth';
 import { isDatabaseBusy } from './db/errors';
@@ -79,27 +79,24 @@ function write(res: ServerResponse, { status, body, headers }: Answer): void {
 }
 
 /**
- * The body of a request whose length is declared, read from Node's events and handed to `done`:
- * the same rules as `readCapped` (413 past the cap before a byte is read, 400 for a broken
- * stream or bad UTF-8), with no promise.
+ * The body of a request whose length is declared, read from Node's events and handed to `done`
+ * under the API's rules (`cappedBody`), with no promise.
  */
-export function readDeclaredBody(req: IncomingMessage, done: (read: TextRead) => void, maxBytes = DEFAULT_MAX_BYTES): void {
-	const declared = Number(req.headers['content-length']);
-	if (Number.isFinite(declared) && declared > maxBytes) return done({ ok: false, answer: tooLarge(maxBytes) });
-	const chunks: Buffer[] = [];
-	let size = 0;
+export function readDeclaredBody(req: IncomingMessage, done: (read: TextRead) => void): void {
+	const capped = cappedBody(req.headers['content-length']);
+	const refused = capped.refused();
+	if (refused) return done(refused);
 	const finish = (read: TextRead) => {
 		req.off('data', onData).off('end', onEnd).off('error', onError);
 		done(read);
 	};
 	// Node's parser never delivers more than the declared length; the cap is checked all the same
 	const onData = (chunk: Buffer) => {
-		size += chunk.byteLength;
-		if (size > maxBytes) finish({ ok: false, answer: tooLarge(maxBytes) });
-		else chunks.push(chunk);
+		const over = capped.add(chunk);
+		if (over) finish(over);
 	};
-	const onEnd = () => finish(decodeBody(chunks, size));
-	const onError = () => finish({ ok: false, answer: errorAnswer(400, 'bad_request', 'The request body could not be read.') });
+	const onEnd = () => finish(capped.text());
+	const onError = () => finish(unreadableBody());
 	req.on('data', onData).on('end', onEnd).on('error', onError);
 }
 
