@@ -3,7 +3,7 @@ import { answerCalculation, CALCULATION_API_LIMIT } from '$lib/calc/api';
 import { answerProblem, PRACTICE_API_LIMIT } from '$lib/practice/api';
 import type { Identity } from '$lib/roles';
 import type { RequestEvent } from '@sveltejs/kit';
-import { errorAnswer, readJsonAnswer, toResponse, type Answer, type TextRead } from './api';
+import { errorAnswer, readJsonAnswer, toResponse, whenReady, type Answer, type TextRead } from './api';
 import { getDb } from './db';
 import { limitAnswer } from './rate-limit';
 import { apiCertificate, lookUp, lookupLimitAnswer } from './verification';
@@ -85,9 +85,7 @@ export const practiceProblem: ApiRoute = {
 	id: '/api/v1/practice/[generator]',
 	method: 'GET',
 	answer(call) {
-		const go = (refused: Answer | null) => refused ?? answerProblem(call.params.generator, call.query.get('seed'));
-		const limited = limitAnswer(call.clientAddress, PRACTICE_API_LIMIT);
-		return limited instanceof Promise ? limited.then(go) : go(limited);
+		return whenReady(limitAnswer(call.clientAddress, PRACTICE_API_LIMIT), (refused) => refused ?? answerProblem(call.params.generator, call.query.get('seed')));
 	}
 };
 

@@ -200,6 +200,15 @@ export async function readCapped(
 	return capped.text();
 }
 
+/**
+ * `then` applied to a value now, or once a promise of it resolves (`fail` on rejection): the hot
+ * routes give their answers without a promise wherever nothing has to wait (in the built server
+ * each promise runs AsyncLocalStorage's hooks).
+ */
+export function whenReady<T, U>(value: T | Promise<T>, then: (value: T) => U, fail?: (error: unknown) => U): U | Promise<U> {
+	return value instanceof Promise ? value.then(then, fail) : then(value);
+}
+
 /** 415 unless the content type is JSON; null when it is. */
 export const refuseNonJson = (contentType: string | null | undefined): Answer | null =>
 	isJsonType(contentType) ? null : errorAnswer(415, 'unsupported_media_type', defaultMessage(415));

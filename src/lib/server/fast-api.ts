@@ -1,6 +1,6 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import { parse as parseCookies } from 'cookie';
-import { busyAnswer, cappedBody, errorAnswer, logUnexpected, refuseNonJson, unreadableBody, type Answer, type TextRead } from './api';
+import { busyAnswer, cappedBody, errorAnswer, logUnexpected, refuseNonJson, unreadableBody, whenReady, type Answer, type TextRead } from './api';
 import { hotRoutes, isJsonBodyRoute, type ApiCall, type ApiRoute, type JsonBodyRoute } from './api-routes';
 import { authSecret } from './auth';
 import { isDatabaseBusy } from './db/errors';
@@ -150,8 +150,7 @@ function answerJsonBody(req: IncomingMessage, res: ServerResponse, route: JsonBo
 	} catch (e) {
 		return fail(e);
 	}
-	if (stop instanceof Promise) stop.then(go, fail);
-	else go(stop);
+	whenReady(stop, go, fail);
 }
 
 /** The answer to a route that threw: 503 when the database was busy, otherwise 500 with a reference in the log. */
@@ -181,6 +180,5 @@ export const fastApi: Middleware = (req, res, next) => {
 	} catch (e) {
 		return fail(e);
 	}
-	if (answer instanceof Promise) answer.then((done) => write(res, done), fail);
-	else write(res, answer);
+	whenReady(answer, (done) => write(res, done), fail);
 };

@@ -1,6 +1,6 @@
 import Database from 'better-sqlite3';
 import { sql } from 'kysely';
-import { rateLimitedAnswer, toResponse, type Answer } from './api';
+import { rateLimitedAnswer, toResponse, whenReady, type Answer } from './api';
 import { config } from './config';
 import { getDb, type DB } from './db';
 import { ensureWritableDir } from './db/engine';
@@ -245,8 +245,7 @@ export interface ApiLimit {
  * (no promise) while this process holds points for the address.
  */
 export function limitAnswer(clientAddress: string, { bucket, limit, windowMs }: ApiLimit): Answer | null | Promise<Answer | null> {
-	const verdict = hitReserving(bucket, clientAddress, scaledLimit(limit), windowMs);
-	return verdict instanceof Promise ? verdict.then(answerFor) : answerFor(verdict);
+	return whenReady(hitReserving(bucket, clientAddress, scaledLimit(limit), windowMs), answerFor);
 }
 
 function answerFor(verdict: RateLimitResult): Answer | null {
