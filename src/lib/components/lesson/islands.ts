@@ -56,10 +56,8 @@ export function mountIslands(root: HTMLElement): () => void {
 	// inside islands fit their own once mounted.
 	const fitted = [...root.querySelectorAll<SVGSVGElement>('svg')].filter((svg) => !svg.closest('[data-island]') && svg.querySelector('text')).map((svg) => fitLabels(svg));
 	const wake = (element: HTMLElement) => {
-		const name = element.dataset.island ?? '';
-		if (!Object.hasOwn(islands, name)) return;
 		const props = JSON.parse(element.dataset.props ?? '{}');
-		islands[name](props).then((island) => {
+		islands[element.dataset.island!](props).then((island) => {
 			if (stopped || !island) return;
 			// The server's markup is replaced in one step, so the reader sees no change.
 			element.replaceChildren();
@@ -80,6 +78,7 @@ export function mountIslands(root: HTMLElement): () => void {
 				)
 			: undefined;
 	for (const element of root.querySelectorAll<HTMLElement>('[data-island]')) {
+		if (!Object.hasOwn(islands, element.dataset.island ?? '')) continue;
 		if (watcher) watcher.observe(element);
 		else wake(element);
 	}
