@@ -82,7 +82,7 @@ function write(res: ServerResponse, { status, body, headers }: Answer): void {
  * The body of a request whose length is declared, read from Node's events and handed to `done`
  * under the API's rules (`cappedBody`), with no promise.
  */
-export function readDeclaredBody(req: IncomingMessage, done: (read: TextRead) => void): void {
+function readDeclaredBody(req: IncomingMessage, done: (read: TextRead) => void): void {
 	const capped = cappedBody(req.headers['content-length']);
 	const refused = capped.refused();
 	if (refused) return done(refused);
