@@ -21,6 +21,7 @@ const PAGES = [
 	// Lesson islands load as they come near the screen: the same lesson scrolled to its end counts them all.
 	{ name: 'the same lesson, read to the end', path: '/courses/point-repair-installer/resin-quantity', signedIn: true, readToEnd: true },
 	{ name: 'lesson without math (signed in)', path: '/courses/point-repair-installer/safety-first', signedIn: true },
+	{ name: 'calculator list', path: '/tools' },
 	{ name: 'calculator tool', path: '/tools/resin-quantity' },
 	{ name: 'dashboard (signed in)', path: '/dashboard', signedIn: true }
 ];

@@ -87,3 +87,20 @@ test.describe('calculator pictures', () => {
 		expect(scripts.some((code) => code.includes('Side section of the taper'))).toBe(false);
 	});
 });
+
+test.describe('the calculator list', () => {
+	test('lists every group and ships no calculator definitions to the browser', async ({ page }) => {
+		const scripts: string[] = [];
+		page.on('response', async (response) => {
+			if (response.request().resourceType() === 'script') scripts.push(await response.text());
+		});
+		await page.goto('/tools');
+		await page.waitForLoadState('networkidle');
+		await expect(page.getByRole('link', { name: /Resin quantity/ })).toBeVisible();
+		await expect(page.getByRole('heading', { name: 'Liner design (ASTM F1216)' })).toBeVisible();
+		expect(scripts.length).toBeGreaterThan(0);
+		// an input label of the resin calculator and a source line of the air test: definitions, not listing
+		expect(scripts.some((code) => code.includes('Resin to glass ratio by weight'))).toBe(false);
+		expect(scripts.some((code) => code.includes('ASTM F1417, low-pressure air test'))).toBe(false);
+	});
+});

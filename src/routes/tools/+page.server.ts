@@ -10,6 +10,7 @@ const GROUPS: { title: string; ids: string[] }[] = [
 	{ title: 'Liner design (ASTM F1216)', ids: ['f1216-partial', 'f1216-full'] }
 ];
 
+/** Computed on the server: the registry of every calculator would otherwise ship to the browser (about 17 KB). */
 export function load() {
 	const byId = new Map(listCalculators().map((c) => [c.id, c]));
 	return {
