@@ -54,14 +54,27 @@ export function matchRoute(method: string, pathname: string): { route: ApiRoute;
 	return null;
 }
 
+/** How adapter-node finds the client's address: a header (ADDRESS_HEADER) and, for X-Forwarded-For, a depth (XFF_DEPTH). */
+interface AddressRule {
+	header: string | undefined;
+	depth: number;
+}
+
+const addressRule = (env: NodeJS.ProcessEnv): AddressRule => ({
+	header: env.ADDRESS_HEADER?.toLowerCase() || undefined,
+	depth: Number.parseInt(env.XFF_DEPTH ?? '1', 10)
+});
+
+/** Read once, as adapter-node reads these settings once at start (reading the environment costs on every request). */
+let processRule: AddressRule | undefined;
+
 /** The client's address as adapter-node works it out (ADDRESS_HEADER, XFF_DEPTH); null to leave the request to it. */
-export function clientAddress(req: IncomingMessage, env: NodeJS.ProcessEnv = process.env): string | null {
-	const header = env.ADDRESS_HEADER?.toLowerCase();
+export function clientAddress(req: IncomingMessage, env?: NodeJS.ProcessEnv): string | null {
+	const { header, depth } = env ? addressRule(env) : (processRule ??= addressRule(process.env));
 	if (!header) return req.socket.remoteAddress ?? null;
 	const value = req.headers[header];
 	if (typeof value !== 'string') return null;
 	if (header !== 'x-forwarded-for') return value;
-	const depth = Number.parseInt(env.XFF_DEPTH ?? '1', 10);
 	const addresses = value.split(',');
 	if (!(depth >= 1) || depth > addresses.length) return null;
 	return addresses[addresses.length - depth].trim();
