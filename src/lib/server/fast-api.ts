@@ -21,34 +21,46 @@ export type Middleware = (req: IncomingMessage, res: ServerResponse, next: () =>
 
 interface Compiled {
 	route: ApiRoute;
-	/** The route id as a pattern: each parameter one segment, never empty, "." or "..", nor holding "%". */
-	pattern: RegExp;
-	/** The parameters' names, in the order the pattern captures them. */
-	names: string[];
+	/** The path up to its parameter, or the whole path of a route without one. */
+	prefix: string;
+	/** The parameter's name when the route ends in one (a hot route has at most one, as its last segment). */
+	param: string | null;
 }
 
 const compiled: Compiled[] = hotRoutes.map((route) => {
-	const names: string[] = [];
-	const source = route.id
-		.split('/')
-		.map((part) => {
-			if (!(part.startsWith('[') && part.endsWith(']'))) return part.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
-			names.push(part.slice(1, -1));
-			// anything encoded or relative is left to SvelteKit, which decodes and normalises paths its own way
-			return '(?!\\.\\.?(?:/|$))([^/%]+)';
-		})
-		.join('/');
-	return { route, pattern: new RegExp(`^${source}$`), names };
+	const open = route.id.indexOf('[');
+	if (open === -1) return { route, prefix: route.id, param: null };
+	const param = route.id.slice(open + 1, -1);
+	if (route.id[open - 1] !== '/' || !route.id.endsWith(']') || /[[\]/]/.test(param)) {
+		throw new Error(`fast-api: ${route.id}: a hot route may have one parameter, as its last segment`);
+	}
+	return { route, prefix: route.id.slice(0, open), param };
 });
 
-/** The route and its parameters, or null when the path is not one of ours exactly. */
+/**
+ * A parameter as SvelteKit would give it, untouched: not empty, "." or "..", and holding no "/"
+ * or "%" (anything encoded or relative is left to SvelteKit, which decodes and normalises paths
+ * its own way).
+ */
+const isPlainSegment = (segment: string): boolean =>
+	segment !== '' && segment !== '.' && segment !== '..' && !segment.includes('/') && !segment.includes('%');
+
+/**
+ * The route and its parameters, or null when the path is not one of ours exactly. String tests
+ * rather than a regular expression per route: this runs for every API request.
+ */
 export function matchRoute(method: string, pathname: string): { route: ApiRoute; params: Record<string, string> } | null {
-	for (const { route, pattern, names } of compiled) {
+	for (const { route, prefix, param } of compiled) {
 		if (route.method !== method) continue;
-		const found = pattern.exec(pathname);
-		if (!found) continue;
 		const params: Record<string, string> = Object.create(null);
-		for (let i = 0; i < names.length; i++) params[names[i]] = found[i + 1];
+		if (param === null) {
+			if (pathname === prefix) return { route, params };
+			continue;
+		}
+		if (!pathname.startsWith(prefix)) continue;
+		const value = pathname.slice(prefix.length);
+		if (!isPlainSegment(value)) continue;
+		params[param] = value;
 		return { route, params };
 	}
 	return null;
