@@ -6,6 +6,7 @@ import { authSecret } from './auth';
 import { isDatabaseBusy } from './db/errors';
 import { NO_STORE, SECURITY_HEADERS } from './security-headers';
 import { whoIsAsking } from './session-cookie';
+import type { Identity } from '$lib/roles';
 
 /**
  * The built server's front door for the hot JSON routes (`api-routes.ts`): it answers them from
@@ -45,6 +46,8 @@ const compiled: Compiled[] = hotRoutes.map((route) => {
 const isPlainSegment = (segment: string): boolean =>
 	segment !== '' && segment !== '.' && segment !== '..' && !segment.includes('/') && !segment.includes('%');
 
+const NO_PARAMS: Record<string, string> = Object.freeze({});
+
 /**
  * The route and its parameters, or null when the path is not one of ours exactly. String tests
  * rather than a regular expression per route: this runs for every API request.
@@ -52,16 +55,15 @@ const isPlainSegment = (segment: string): boolean =>
 export function matchRoute(method: string, pathname: string): { route: ApiRoute; params: Record<string, string> } | null {
 	for (const { route, prefix, param } of compiled) {
 		if (route.method !== method) continue;
-		const params: Record<string, string> = Object.create(null);
 		if (param === null) {
-			if (pathname === prefix) return { route, params };
+			if (pathname === prefix) return { route, params: NO_PARAMS };
 			continue;
 		}
 		if (!pathname.startsWith(prefix)) continue;
 		const value = pathname.slice(prefix.length);
 		if (!isPlainSegment(value)) continue;
-		params[param] = value;
-		return { route, params };
+		// a plain object: its one key is a name from our own route ids, never a visitor's
+		return { route, params: { [param]: value } };
 	}
 	return null;
 }
@@ -95,9 +97,13 @@ export function clientAddress(req: IncomingMessage, env?: NodeJS.ProcessEnv): st
 /** The headers every answer here carries, flat as `writeHead` takes them (one call instead of one per header). */
 const COMMON_HEADERS: readonly string[] = [...SECURITY_HEADERS.flat(), ...NO_STORE];
 
+/** Every answer's headers with a place for its length (index 3), copied per answer. */
+const ANSWER_HEADERS: readonly string[] = ['Content-Type', 'application/json', 'Content-Length', '', ...COMMON_HEADERS];
+
 function write(res: ServerResponse, { status, body, headers }: Answer): void {
 	const text = JSON.stringify(body);
-	const flat = ['Content-Type', 'application/json', 'Content-Length', String(Buffer.byteLength(text)), ...COMMON_HEADERS];
+	const flat = ANSWER_HEADERS.slice();
+	flat[3] = String(Buffer.byteLength(text));
 	if (headers) for (const [name, value] of Object.entries(headers)) flat.push(name, value);
 	res.writeHead(status, flat);
 	res.end(text);
@@ -125,26 +131,35 @@ function readDeclaredBody(req: IncomingMessage, done: (read: TextRead) => void):
 	req.on('data', onData).on('end', onEnd).on('error', onError);
 }
 
-function callOf(req: IncomingMessage, params: Record<string, string>, query: string, address: string): ApiCall {
-	return {
-		params,
-		// parsed only by the routes that read it
-		get query() {
-			return new URLSearchParams(query);
-		},
-		clientAddress: address,
-		jsonText() {
-			const refused = refuseNonJson(req.headers['content-type']);
-			// the length is declared (chunked bodies go on to SvelteKit)
-			return refused ? Promise.resolve({ ok: false, answer: refused }) : new Promise((resolve) => readDeclaredBody(req, resolve));
-		},
-		async identity() {
-			const header = req.headers.cookie;
-			if (!header) return null;
-			const cookies = parseCookies(header);
-			return (await whoIsAsking({ get: (name) => cookies[name] }, authSecret))?.user ?? null;
-		}
-	};
+/**
+ * One call as the routes see it. A class rather than an object literal with a getter: an
+ * accessor in a literal is defined at run time on every request, a class's lives on its prototype.
+ */
+class NodeCall implements ApiCall {
+	constructor(
+		private readonly req: IncomingMessage,
+		readonly params: Record<string, string>,
+		private readonly rawQuery: string,
+		readonly clientAddress: string
+	) {}
+
+	/** Parsed only by the routes that read it. */
+	get query(): URLSearchParams {
+		return new URLSearchParams(this.rawQuery);
+	}
+
+	jsonText(): Promise<TextRead> {
+		const refused = refuseNonJson(this.req.headers['content-type']);
+		// the length is declared (chunked bodies go on to SvelteKit)
+		return refused ? Promise.resolve({ ok: false, answer: refused }) : new Promise((resolve) => readDeclaredBody(this.req, resolve));
+	}
+
+	async identity(): Promise<Identity | null> {
+		const header = this.req.headers.cookie;
+		if (!header) return null;
+		const cookies = parseCookies(header);
+		return (await whoIsAsking({ get: (name) => cookies[name] }, authSecret))?.user ?? null;
+	}
 }
 
 /**
@@ -196,7 +211,7 @@ export const fastApi: Middleware = (req, res, next) => {
 	if (method === 'POST' && req.headers['content-length'] === undefined) return next();
 	const address = clientAddress(req);
 	if (address === null) return next();
-	const call = callOf(req, found.params, q === -1 ? '' : url.slice(q + 1), address);
+	const call = new NodeCall(req, found.params, q === -1 ? '' : url.slice(q + 1), address);
 	const fail = (e: unknown) => write(res, failureAnswer(method, pathname, e));
 	if (isJsonBodyRoute(found.route)) return answerJsonBody(req, res, found.route, call, fail);
 	let answer: Answer | Promise<Answer>;
