@@ -123,7 +123,6 @@ export type TextRead = { ok: true; text: string } | { ok: false; answer: Answer 
 
 export function isJsonType(contentType: string | null | undefined): boolean {
 	if (!contentType) return false;
-	if (contentType === 'application/json') return true;
 	const type = contentType.split(';')[0].trim().toLowerCase();
 	return type === 'application/json' || (type.startsWith('application/') && type.endsWith('+json'));
 }
