@@ -89,7 +89,7 @@ test.describe('calculator pictures', () => {
 });
 
 test.describe('the calculator list', () => {
-	test('lists every group and ships no calculator definitions to the browser', async ({ page }) => {
+	test('lists every group as a named region and ships no calculator definitions to the browser', async ({ page }) => {
 		const scripts: string[] = [];
 		page.on('response', async (response) => {
 			if (response.request().resourceType() === 'script') scripts.push(await response.text());
@@ -98,6 +98,9 @@ test.describe('the calculator list', () => {
 		await page.waitForLoadState('networkidle');
 		await expect(page.getByRole('link', { name: /Resin quantity/ })).toBeVisible();
 		await expect(page.getByRole('heading', { name: 'Liner design (ASTM F1216)' })).toBeVisible();
+		// each group is a region named by its heading
+		await expect(page.getByRole('region', { name: 'Mat and resin' })).toBeVisible();
+		await expect(page.getByRole('region', { name: 'Liner design (ASTM F1216)' })).toBeVisible();
 		expect(scripts.length).toBeGreaterThan(0);
 		// an input label of the resin calculator and a source line of the air test: definitions, not listing
 		expect(scripts.some((code) => code.includes('Resin to glass ratio by weight'))).toBe(false);
